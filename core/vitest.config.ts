@@ -1,0 +1,3 @@
+import { nodeProject } from '../vitest.node-project.js';
+
+export default nodeProject('core');

@@ -1,0 +1,16 @@
+export * from './schema.js';
+export { createDb, createPool, type Database, type CreateDbOptions } from './database.js';
+export { readDatabaseConfig, withDatabaseName, type DatabaseConfig } from './config.js';
+export { migrateToLatest, migrateDown, migrateToNothing } from './migrate.js';
+export { ensureDatabase, dropDatabase } from './admin.js';
+export {
+  PostgresCluster,
+  ensurePostgresInstalled,
+  findPostgresBin,
+  type ClusterOptions,
+  type ClusterState,
+} from './cluster.js';
+export { localCluster } from './local-cluster.js';
+export { repoRoot, dataRoot } from './paths.js';
+export { ensureTimePartitions } from './partitions.js';
+export { newGatewaySecret, hashGatewaySecret, verifyGatewaySecret } from './gateway-secrets.js';

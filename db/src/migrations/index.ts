@@ -1,0 +1,12 @@
+import type { Migration } from 'kysely';
+import * as init from './20261202_0400_init.js';
+import * as ingestRollups from './20261202_0510_ingest_rollups.js';
+
+/**
+ * Every migration, by name. Names start with a timestamp so they sort in the order they run;
+ * add a file and one line here (see DEVELOPERS.md, "Adding a migration").
+ */
+export const migrations: Record<string, Migration> = {
+  '20261202_0400_init': init,
+  '20261202_0510_ingest_rollups': ingestRollups,
+};

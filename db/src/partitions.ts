@@ -1,0 +1,25 @@
+import { sql, type Kysely } from 'kysely';
+
+/** Time-partitioned tables and the span of each partition. */
+export const partitionedTables = {
+  readings: '1 day',
+  minute_buckets: '1 month',
+} as const;
+
+/**
+ * Creates any missing partitions of a time-partitioned table that cover [from, to).
+ * Returns how many were created. Safe to call concurrently and repeatedly.
+ */
+export async function ensureTimePartitions(
+  db: Kysely<any>, // eslint-disable-line @typescript-eslint/no-explicit-any
+  table: keyof typeof partitionedTables,
+  from: Date,
+  to: Date,
+): Promise<number> {
+  const step = partitionedTables[table];
+  const { rows } = await sql<{ created: number }>`
+    select ensure_time_partitions(${table}, ${step}::interval, ${from}, ${to}) as created`.execute(
+    db,
+  );
+  return rows[0]?.created ?? 0;
+}

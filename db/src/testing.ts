@@ -1,0 +1,7 @@
+export {
+  createTestDatabase,
+  useTestDatabase,
+  testServerUrl,
+  type TestDatabase,
+} from './testing/test-database.js';
+export { freePort, testCluster, TEMPLATE_DATABASE } from './testing/global-setup.js';
