@@ -41,17 +41,18 @@ interface Service {
 const services: Service[] = [
   {
     name: 'mail',
-    entry: 'node_modules/maildev/bin/maildev',
+    entry: 'node_modules/maildev/dist/bin/maildev.js',
     command: process.execPath,
     args: [
-      'node_modules/maildev/bin/maildev',
+      'node_modules/maildev/dist/bin/maildev.js',
       '--smtp',
       String(ports.smtp),
       '--web',
       String(ports.mailWeb),
       '--ip',
       '127.0.0.1',
-      '--silent',
+      '--web-ip',
+      '127.0.0.1',
     ],
     url: `http://127.0.0.1:${ports.mailWeb} (mail sent by Wellkept lands here)`,
   },
