@@ -1,0 +1,80 @@
+/**
+ * What a PV array should produce: rated watts × irradiance on the array / 1000 W/m² × derate.
+ * On clear days the plane-of-array irradiance is estimated from clear-sky GHI with a fixed
+ * diffuse share (an approximation good enough to tell "should be charging" from "is not").
+ */
+import { type SiteLocation, type SolarPositionOptions, solarPosition } from './solar-position.js';
+import { haurwitzClearSkyGhi } from './clear-sky.js';
+
+/** A PV array as installed. */
+export interface PvArrayConfig {
+  /** Equipment key, the `<array>` in `pv/<array>/…`. */
+  key: string;
+  /** Nameplate power at standard test conditions (1000 W/m², 25 °C), watts. */
+  ratedWatts: number;
+  /** Tilt from horizontal, degrees (0 flat). Default 0. */
+  tiltDegrees?: number;
+  /** Direction the array faces, degrees from north eastward (180 = south). Default 180. */
+  azimuthDegrees?: number;
+  /** Losses from wiring, soiling, heat and the controller, as a factor 0–1. Default 0.75 (common practice). */
+  derate?: number;
+}
+
+/** Default derate for small off-grid arrays (common practice). */
+export const DEFAULT_PV_DERATE = 0.75;
+
+/** Expected array output, watts, for an irradiance on the array (W/m²). */
+export function expectedPvWatts(
+  array: PvArrayConfig,
+  irradianceWattsPerSquareMetre: number,
+): number {
+  if (!Number.isFinite(irradianceWattsPerSquareMetre) || irradianceWattsPerSquareMetre <= 0)
+    return 0;
+  return (
+    (array.ratedWatts * irradianceWattsPerSquareMetre * (array.derate ?? DEFAULT_PV_DERATE)) / 1000
+  );
+}
+
+/** Share of clear-sky GHI that is diffuse, for the clear-sky plane-of-array estimate. */
+export const CLEAR_SKY_DIFFUSE_FRACTION = 0.15;
+/** Ground reflectance for the plane-of-array estimate. */
+export const DEFAULT_ALBEDO = 0.2;
+
+/**
+ * Plane-of-array irradiance from GHI for a tilted array (isotropic sky): a fixed diffuse share,
+ * the rest as beam, plus ground reflection. W/m².
+ */
+export function planeOfArrayIrradiance(
+  ghiWattsPerSquareMetre: number,
+  sun: { zenithDegrees: number; azimuthDegrees: number },
+  array: Pick<PvArrayConfig, 'tiltDegrees' | 'azimuthDegrees'>,
+): number {
+  if (!(ghiWattsPerSquareMetre > 0)) return 0;
+  const rad = Math.PI / 180;
+  const cosZ = Math.cos(sun.zenithDegrees * rad);
+  if (cosZ <= 0.01) return 0;
+  const tilt = (array.tiltDegrees ?? 0) * rad;
+  const facing = (array.azimuthDegrees ?? 180) * rad;
+  const diffuse = CLEAR_SKY_DIFFUSE_FRACTION * ghiWattsPerSquareMetre;
+  const beamNormal = (ghiWattsPerSquareMetre - diffuse) / cosZ;
+  const zenith = sun.zenithDegrees * rad;
+  const cosIncidence =
+    Math.cos(zenith) * Math.cos(tilt) +
+    Math.sin(zenith) * Math.sin(tilt) * Math.cos(sun.azimuthDegrees * rad - facing);
+  const beam = beamNormal * Math.max(cosIncidence, 0);
+  const sky = (diffuse * (1 + Math.cos(tilt))) / 2;
+  const ground = (ghiWattsPerSquareMetre * DEFAULT_ALBEDO * (1 - Math.cos(tilt))) / 2;
+  return beam + sky + ground;
+}
+
+/** Expected output of an array under a clear sky at an instant, watts. */
+export function clearSkyPvWatts(
+  array: PvArrayConfig,
+  epochSeconds: number,
+  site: SiteLocation,
+  options: SolarPositionOptions = {},
+): number {
+  const sun = solarPosition(epochSeconds, site, options);
+  const ghi = haurwitzClearSkyGhi(sun.zenithDegrees);
+  return expectedPvWatts(array, planeOfArrayIrradiance(ghi, sun, array));
+}
