@@ -14,3 +14,5 @@ export { localCluster } from './local-cluster.js';
 export { repoRoot, dataRoot } from './paths.js';
 export { ensureTimePartitions } from './partitions.js';
 export { newGatewaySecret, hashGatewaySecret, verifyGatewaySecret } from './gateway-secrets.js';
+export * from './mail/index.js';
+export { startThrowawayCluster, freePort, type ThrowawayCluster } from './throwaway-cluster.js';

@@ -24,6 +24,16 @@ export type JsonValue = JsonArray | JsonObject | JsonPrimitive;
 
 export type Timestamp = ColumnType<Date, Date | string, Date | string>;
 
+export interface AlertDigestItems {
+  alert_event_id: number;
+  created_at: Generated<Timestamp>;
+  due_at: Timestamp;
+  id: Generated<number>;
+  outbox_id: number | null;
+  summarised_at: Timestamp | null;
+  user_id: string;
+}
+
 export type AlertKind =
   | 'low_charge'
   | 'overnight_sag'
@@ -41,6 +51,7 @@ export interface AlertEvents {
   evidence: Json | null;
   id: Generated<number>;
   note: string | null;
+  notified_at: Timestamp | null;
   site_id: string;
   user_id: string | null;
 }
@@ -442,6 +453,7 @@ export interface Wells {
 }
 
 export interface DB {
+  alert_digest_items: AlertDigestItems;
   alert_events: AlertEvents;
   alert_settings: AlertSettings;
   alerts: Alerts;

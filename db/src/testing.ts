@@ -5,3 +5,4 @@ export {
   type TestDatabase,
 } from './testing/test-database.js';
 export { freePort, testCluster, TEMPLATE_DATABASE } from './testing/global-setup.js';
+export { startMailCatcher, type MailCatcher, type CaughtMail } from './testing/mail-catcher.js';

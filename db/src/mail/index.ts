@@ -1,0 +1,15 @@
+export {
+  enqueueMail,
+  claimDueMail,
+  markMailSent,
+  markMailFailed,
+  type OutboxMessage,
+  type ClaimedMail,
+  type MailCategory,
+} from './outbox.js';
+export {
+  OutboxSender,
+  retryDelaySeconds,
+  type SmtpSettings,
+  type OutboxSenderOptions,
+} from './outbox-sender.js';

@@ -1,0 +1,97 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { enqueueMail, OutboxSender, retryDelaySeconds } from '../src/index.js';
+import { type MailCatcher, startMailCatcher, useTestDatabase } from '../src/testing.js';
+
+const t = useTestDatabase('db_outbox');
+let mail: MailCatcher;
+beforeAll(async () => {
+  mail = await startMailCatcher();
+});
+afterAll(async () => mail?.stop());
+
+const message = (key: string, to = `${key}@people.example`) => ({
+  dedupeKey: key,
+  to,
+  subject: `Subject ${key}`,
+  text: `Body of ${key}`,
+  category: 'invitation' as const,
+});
+
+describe('e-mail outbox', () => {
+  it('stores a message once per dedupe key', async () => {
+    const first = await enqueueMail(t.db, message('dedupe-1'));
+    const again = await enqueueMail(t.db, { ...message('dedupe-1'), subject: 'changed' });
+    expect(first.created).toBe(true);
+    expect(again).toEqual({ id: first.id, created: false });
+    const rows = await t.db
+      .selectFrom('email_outbox')
+      .select('subject')
+      .where('dedupe_key', '=', 'dedupe-1')
+      .execute();
+    expect(rows).toEqual([{ subject: 'Subject dedupe-1' }]);
+  });
+
+  it('two senders at once deliver every due message exactly once and mark it sent', async () => {
+    await mail.clear();
+    await t.db.deleteFrom('email_outbox').execute();
+    for (let i = 0; i < 12; i++) await enqueueMail(t.db, message(`batch-${i}`));
+    const a = new OutboxSender(t.db, mail.smtp, { batchSize: 3, log: () => {} });
+    const b = new OutboxSender(t.db, mail.smtp, { batchSize: 3, log: () => {} });
+    const [ra, rb] = await Promise.all([a.sendDue(), b.sendDue()]);
+    await Promise.all([a.stop(), b.stop()]);
+    expect(ra.sent + rb.sent).toBe(12);
+    const caught = await mail.messages();
+    expect(caught.map((m) => m.subject).sort()).toEqual(
+      [...Array(12).keys()].map((i) => `Subject batch-${i}`).sort(),
+    );
+    const unsent = await t.db
+      .selectFrom('email_outbox')
+      .select('id')
+      .where('sent_at', 'is', null)
+      .execute();
+    expect(unsent).toEqual([]);
+  });
+
+  it('keeps a message that failed, with the reason, and retries it later with backoff', async () => {
+    await t.db.deleteFrom('email_outbox').execute();
+    await enqueueMail(t.db, message('retry-1'));
+    const broken = new OutboxSender(
+      t.db,
+      { host: '127.0.0.1', port: 9, from: 'x@wellkept.example' },
+      { log: () => {} },
+    );
+    const result = await broken.sendDue();
+    await broken.stop();
+    expect(result).toEqual({ sent: 0, failed: 1 });
+    const row = await t.db
+      .selectFrom('email_outbox')
+      .selectAll()
+      .where('dedupe_key', '=', 'retry-1')
+      .executeTakeFirstOrThrow();
+    expect(row.sent_at).toBeNull();
+    expect(row.attempts).toBe(1);
+    expect(row.last_error).toBeTruthy();
+    expect(row.next_attempt_at.getTime()).toBeGreaterThan(Date.now() + 20_000);
+    expect([1, 2, 3, 10].map(retryDelaySeconds)).toEqual([30, 60, 120, 3600]);
+
+    // Not due yet: a working sender leaves it; once due, it goes out.
+    const good = new OutboxSender(t.db, mail.smtp, { log: () => {} });
+    expect(await good.sendDue()).toEqual({ sent: 0, failed: 0 });
+    await t.db
+      .updateTable('email_outbox')
+      .set({ next_attempt_at: new Date() })
+      .where('dedupe_key', '=', 'retry-1')
+      .execute();
+    expect(await good.sendDue()).toEqual({ sent: 1, failed: 0 });
+    await good.stop();
+    await mail.waitFor((m) => m.subject === 'Subject retry-1');
+  });
+
+  it('holds a message until its hold time (quiet hours)', async () => {
+    await t.db.deleteFrom('email_outbox').execute();
+    await enqueueMail(t.db, { ...message('held-1'), holdUntil: new Date(Date.now() + 3600_000) });
+    const sender = new OutboxSender(t.db, mail.smtp, { log: () => {} });
+    expect(await sender.sendDue()).toEqual({ sent: 0, failed: 0 });
+    await sender.stop();
+  });
+});
