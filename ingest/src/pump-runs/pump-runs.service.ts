@@ -1,0 +1,115 @@
+import { Inject, Injectable } from '@nestjs/common';
+import { tankVolumeFromLevel, type TankConfig, type TankGeometry } from '@wellkept/core';
+import type { Logger } from 'pino';
+import { LOGGER } from '../logging/logger.js';
+import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
+import { SWITCH_MAX_GAP_SECONDS } from '../storage/rollup-timing.js';
+import { derivePumpRuns, type TimedValue } from './derive-pump-runs.js';
+import { PumpRunsRepository, type PumpForRuns } from './pump-runs.repository.js';
+
+/**
+ * Pump runs, re-derived incrementally: for each pump of a touched site, from the earliest time
+ * that received data (or the start of the run in progress then) to the newest sample. A run's
+ * figures change while it is open and when late samples arrive, so the runs from that point on
+ * are replaced in one transaction; runs before it are left alone.
+ */
+@Injectable()
+export class PumpRunsService {
+  constructor(
+    private readonly repository: PumpRunsRepository,
+    private readonly siteUpdates: SiteUpdates,
+    @Inject(LOGGER) private readonly logger: Logger,
+  ) {}
+
+  /** Re-derives runs of every pump at the given sites from the given times. Returns sites done. */
+  async rederive(fromBySite: ReadonlyMap<string, Date>): Promise<number> {
+    const pumps = await this.repository.pumpsAt([...fromBySite.keys()]);
+    if (pumps.length === 0) return 0;
+    const overlapping = await this.repository.overlappingRunStarts(
+      pumps.map((p) => ({ pumpId: p.id, from: fromBySite.get(p.siteId)! })),
+      SWITCH_MAX_GAP_SECONDS,
+    );
+    const startOf = (p: PumpForRuns): Date => {
+      const from = fromBySite.get(p.siteId)!;
+      const open = overlapping.get(p.id);
+      return open && open < from ? open : from;
+    };
+    const lookBack = (d: Date) => new Date(d.getTime() - SWITCH_MAX_GAP_SECONDS * 1000);
+    const wanted = pumps.flatMap((p) => {
+      const from = lookBack(startOf(p));
+      const names = [
+        `pump/${p.key}/running`,
+        `pump/${p.key}/current`,
+        `pump/${p.key}/flow`,
+        'battery/voltage',
+      ];
+      if (p.tank) names.push(`tank/${p.tank.key}/level`);
+      return names.map((name) => ({ siteId: p.siteId, name, from }));
+    });
+    const samples = await this.repository.samples(wanted);
+    const series = (siteId: string, name: string) => samples.get(`${siteId}\u0000${name}`) ?? [];
+
+    const changedSites = new Set<string>();
+    const updates = await this.repository.database.transaction().execute(async (trx) => {
+      for (const pump of pumps) {
+        const start = startOf(pump);
+        const runs = derivePumpRuns({
+          running: series(pump.siteId, `pump/${pump.key}/running`),
+          current: series(pump.siteId, `pump/${pump.key}/current`),
+          flow: series(pump.siteId, `pump/${pump.key}/flow`),
+          batteryVoltage: series(pump.siteId, 'battery/voltage'),
+          tankVolume: pump.tank
+            ? tankVolumes(pump.tank, series(pump.siteId, `tank/${pump.tank.key}/level`))
+            : [],
+          ratedCurrentA: pump.ratedCurrentA,
+          maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
+        }).filter((r) => r.startedAt * 1000 >= start.getTime());
+        await this.repository.replaceRuns(trx, pump, start, runs);
+        changedSites.add(pump.siteId);
+      }
+      const at = new Date().toISOString();
+      const updates: SiteUpdatedEvent[] = [...changedSites].map((siteId) => ({
+        siteId,
+        what: ['pump_runs'],
+        at,
+      }));
+      await this.siteUpdates.notifyInTransaction(trx, updates);
+      return updates;
+    });
+    // In-process events only once the transaction has committed.
+    this.siteUpdates.emit(updates);
+    this.logger.debug({ sites: changedSites.size, pumps: pumps.length }, 'pump runs re-derived');
+    return changedSites.size;
+  }
+}
+
+function tankVolumes(
+  tank: NonNullable<PumpForRuns['tank']>,
+  levels: readonly TimedValue[],
+): TimedValue[] {
+  const geometry: TankGeometry | null =
+    tank.geometry === 'vertical_cylinder' && tank.diameterM && tank.heightM
+      ? { shape: 'vertical_cylinder', diameterMetres: tank.diameterM, heightMetres: tank.heightM }
+      : tank.geometry === 'horizontal_cylinder' && tank.diameterM && tank.lengthM
+        ? {
+            shape: 'horizontal_cylinder',
+            diameterMetres: tank.diameterM,
+            lengthMetres: tank.lengthM,
+          }
+        : tank.geometry === 'rectangular' && tank.lengthM && tank.widthM && tank.heightM
+          ? {
+              shape: 'rectangular',
+              lengthMetres: tank.lengthM,
+              widthMetres: tank.widthM,
+              heightMetres: tank.heightM,
+            }
+          : null;
+  if (!geometry) return [];
+  const config: TankConfig = { key: tank.key, geometry, sensorOffsetMetres: tank.sensorOffsetM };
+  const out: TimedValue[] = [];
+  for (const s of levels) {
+    const volume = tankVolumeFromLevel(config, s.v);
+    if (volume.ok) out.push({ t: s.t, v: volume.cubicMetres });
+  }
+  return out;
+}

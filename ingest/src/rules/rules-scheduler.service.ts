@@ -1,0 +1,215 @@
+import {
+  Inject,
+  Injectable,
+  type BeforeApplicationShutdown,
+  type OnApplicationBootstrap,
+} from '@nestjs/common';
+import { OnEvent } from '@nestjs/event-emitter';
+import { overnightWindow, type AlertKind, type TimeWindow } from '@wellkept/core';
+import type { Logger } from 'pino';
+import { LOGGER } from '../logging/logger.js';
+import { CLOCK, type Clock } from '../notifications/clock.js';
+import { MorningSummaryService } from '../notifications/morning-summary.service.js';
+import { SITE_UPDATED, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
+import { AlertsRepository } from './alerts.repository.js';
+import { RULES_CONFIG, type RulesConfig } from './rules-config.js';
+import { DATA_KINDS, RulesEvaluationService } from './rules-evaluation.service.js';
+import { SiteConfigRepository } from './site-config.repository.js';
+
+/**
+ * When the rules run:
+ * - after a site's data commits (the in-process `site.updated` event of ingest), debounced per
+ *   site: the first event starts a timer of RULES_DEBOUNCE_MS and later ones ride along, so a
+ *   day of back-filled packs costs one evaluation, not thousands;
+ * - on a tick (RULES_TICK_MS): gateway silence for every watched site, overnight sag once per
+ *   night after each site's own sunrise (plus a grace for late data), and a full evaluation of
+ *   sites that have had none for RULES_FULL_EVERY_MS (water low, not charging, held faults);
+ *   then the morning summaries that have come due.
+ * Evaluations of one site never overlap, and at most RULES_CONCURRENCY sites run at once.
+ */
+@Injectable()
+export class RulesSchedulerService implements OnApplicationBootstrap, BeforeApplicationShutdown {
+  private readonly debounce = new Map<string, NodeJS.Timeout>();
+  /** Per site: the kinds waiting for the next run, and the run in progress. */
+  private readonly waiting = new Map<string, Set<AlertKind>>();
+  private readonly running = new Map<string, Promise<void>>();
+  private readonly queue: string[] = [];
+  private active = 0;
+  private readonly lastFull = new Map<string, number>();
+  /** Per site: the dawn (epoch s) of the last night judged for overnight sag. */
+  private readonly judgedDawn = new Map<string, number>();
+  private timer: NodeJS.Timeout | undefined;
+  private ticking: Promise<void> | null = null;
+  private stopped = false;
+  private idleWaiters: (() => void)[] = [];
+
+  constructor(
+    private readonly evaluation: RulesEvaluationService,
+    private readonly sites: SiteConfigRepository,
+    private readonly alerts: AlertsRepository,
+    private readonly summaries: MorningSummaryService,
+    @Inject(RULES_CONFIG) private readonly config: RulesConfig,
+    @Inject(CLOCK) private readonly clock: Clock,
+    @Inject(LOGGER) private readonly logger: Logger,
+  ) {}
+
+  onApplicationBootstrap(): void {
+    const next = () => {
+      if (this.stopped) return;
+      this.timer = setTimeout(() => {
+        void this.tick()
+          .catch((e: unknown) => this.logger.error({ err: e }, 'rules tick failed'))
+          .finally(next);
+      }, this.config.tickMs);
+      this.timer.unref();
+    };
+    next();
+  }
+
+  async beforeApplicationShutdown(): Promise<void> {
+    this.stopped = true;
+    clearTimeout(this.timer);
+    for (const t of this.debounce.values()) clearTimeout(t);
+    this.debounce.clear();
+    this.queue.length = 0;
+    await this.ticking?.catch(() => undefined);
+    await Promise.all([...this.running.values()]);
+  }
+
+  @OnEvent(SITE_UPDATED)
+  onSiteUpdated(event: SiteUpdatedEvent): void {
+    // Our own alert changes come back on the same event; they are not new data.
+    if (!event.what.some((w) => w !== 'alerts')) return;
+    this.dataArrived(event.siteId);
+  }
+
+  /** New data at a site: evaluate the data rules after the debounce. */
+  dataArrived(siteId: string): void {
+    if (this.stopped || this.debounce.has(siteId)) return;
+    const timer = setTimeout(() => {
+      this.debounce.delete(siteId);
+      this.request(siteId, DATA_KINDS);
+    }, this.config.debounceMs);
+    timer.unref();
+    this.debounce.set(siteId, timer);
+  }
+
+  /** Queues an evaluation of the given kinds (merged with any already waiting). */
+  request(siteId: string, kinds: readonly AlertKind[]): void {
+    if (this.stopped) return;
+    const waiting = this.waiting.get(siteId);
+    if (waiting) {
+      for (const k of kinds) waiting.add(k);
+      return;
+    }
+    this.waiting.set(siteId, new Set(kinds));
+    if (!this.running.has(siteId)) this.queue.push(siteId);
+    this.pump();
+  }
+
+  /** Resolves once no tick runs and no evaluation is pending, debounced or running (tests). */
+  async settled(): Promise<void> {
+    await this.ticking?.catch(() => undefined);
+    await this.idle();
+  }
+
+  private async idle(): Promise<void> {
+    while (this.debounce.size > 0 || this.waiting.size > 0 || this.running.size > 0) {
+      await new Promise<void>((resolve) => {
+        this.idleWaiters.push(resolve);
+        setTimeout(resolve, 20);
+      });
+    }
+  }
+
+  /** One round of the time-based rules; concurrent calls share it. */
+  tick(): Promise<void> {
+    if (this.ticking) return this.ticking;
+    this.ticking = this.tickOnce().finally(() => {
+      this.ticking = null;
+    });
+    return this.ticking;
+  }
+
+  private async tickOnce(): Promise<void> {
+    const now = this.clock.now();
+    const nowT = now.getTime() / 1000;
+    const ids = await this.sites.watchedSiteIds();
+    const configs = await this.sites.load(ids);
+    for (const id of ids) {
+      const kinds = new Set<AlertKind>(['gateway_silent']);
+      if (nowT * 1000 - (this.lastFull.get(id) ?? -Infinity) >= this.config.fullEveryMs) {
+        for (const k of DATA_KINDS) kinds.add(k);
+      }
+      const site = configs.get(id);
+      if (site?.config.battery && (await this.overnightDue(id, site.config, nowT))) {
+        kinds.add('overnight_sag');
+      }
+      this.request(id, [...kinds]);
+    }
+    await this.idle();
+    await this.summaries.run();
+  }
+
+  /** Whether the site's last complete night has ended (plus grace) and was not judged yet. */
+  private async overnightDue(
+    siteId: string,
+    config: { timeZone: string; location: { latitudeDegrees: number; longitudeDegrees: number } },
+    nowT: number,
+  ): Promise<boolean> {
+    const judged = this.judgedDawn.get(siteId);
+    // The next night cannot end sooner than ~20 h after the last dawn judged.
+    if (judged !== undefined && nowT < judged + 20 * 3600) return false;
+    const night = lastCompleteNight(nowT, { ...config.location, timeZone: config.timeZone });
+    if (!night || nowT < night.endT + this.config.dawnGraceSeconds) return false;
+    if (judged !== undefined && judged >= night.endT) return false;
+    // After a restart: a history event since that dawn means the night was judged already.
+    if (await this.alerts.anyEventSince(siteId, 'overnight_sag', new Date(night.endT * 1000))) {
+      this.judgedDawn.set(siteId, night.endT);
+      return false;
+    }
+    this.judgedDawn.set(siteId, night.endT);
+    return true;
+  }
+
+  private pump(): void {
+    while (this.active < this.config.concurrency && this.queue.length > 0) {
+      const siteId = this.queue.shift()!;
+      const kinds = this.waiting.get(siteId);
+      this.waiting.delete(siteId);
+      if (!kinds || kinds.size === 0) continue;
+      this.active += 1;
+      const run = this.runOne(siteId, [...kinds]).finally(() => {
+        this.active -= 1;
+        this.running.delete(siteId);
+        if (this.waiting.has(siteId)) this.queue.push(siteId);
+        this.pump();
+        if (this.debounce.size === 0 && this.waiting.size === 0 && this.running.size === 0) {
+          for (const w of this.idleWaiters.splice(0)) w();
+        }
+      });
+      this.running.set(siteId, run);
+    }
+  }
+
+  private async runOne(siteId: string, kinds: AlertKind[]): Promise<void> {
+    try {
+      if (DATA_KINDS.every((k) => kinds.includes(k))) {
+        this.lastFull.set(siteId, this.clock.now().getTime());
+      }
+      await this.evaluation.evaluate(siteId, kinds);
+    } catch (error) {
+      this.logger.error({ err: error, siteId }, 'rules evaluation failed');
+    }
+  }
+}
+
+/** The last night at the site that has ended by `nowT` (sunset to sunrise), or null. */
+export function lastCompleteNight(
+  nowT: number,
+  site: { timeZone: string; latitudeDegrees: number; longitudeDegrees: number },
+): TimeWindow | null {
+  let night = overnightWindow(nowT, site);
+  if (night && night.endT > nowT) night = overnightWindow(night.startT - 60, site);
+  return night;
+}

@@ -1,0 +1,171 @@
+import { Inject, Injectable } from '@nestjs/common';
+import type { AlertKind, RuleParamsOverrides, SiteConfig, TankGeometry } from '@wellkept/core';
+import { DATABASE, type Database } from '../database/database.js';
+
+/** What the rules need to know of a site besides its data. */
+export interface SiteForRules {
+  id: string;
+  companyId: string;
+  name: string;
+  config: SiteConfig;
+  /** Per-site threshold overrides (`alert_settings.params`, by kind). */
+  overrides: RuleParamsOverrides;
+  /** Kinds switched off for the site (`alert_settings.enabled = false`). */
+  disabled: ReadonlySet<AlertKind>;
+  /** Equipment id (pump, tank, float) by key, for links and wording. */
+  equipmentNames: ReadonlyMap<string, string>;
+}
+
+/**
+ * Loads a site's equipment and alert settings into core's `SiteConfig` (SI units, equipment by
+ * key). One query per table, for one or many sites.
+ */
+@Injectable()
+export class SiteConfigRepository {
+  constructor(@Inject(DATABASE) private readonly db: Database) {}
+
+  /** Ids of the sites that have at least one gateway that is not revoked. */
+  async watchedSiteIds(): Promise<string[]> {
+    const rows = await this.db
+      .selectFrom('gateways')
+      .select('site_id')
+      .distinct()
+      .where('revoked_at', 'is', null)
+      .execute();
+    return rows.map((r) => r.site_id);
+  }
+
+  async load(siteIds: readonly string[]): Promise<Map<string, SiteForRules>> {
+    const out = new Map<string, SiteForRules>();
+    if (siteIds.length === 0) return out;
+    const ids = [...siteIds];
+    const [sites, banks, tanks, pumps, arrays, floats, gateways, settings] = await Promise.all([
+      this.db.selectFrom('sites').selectAll().where('id', 'in', ids).execute(),
+      this.db.selectFrom('battery_banks').selectAll().where('site_id', 'in', ids).execute(),
+      this.db.selectFrom('tanks').selectAll().where('site_id', 'in', ids).execute(),
+      this.db.selectFrom('pumps').selectAll().where('site_id', 'in', ids).execute(),
+      this.db.selectFrom('pv_arrays').selectAll().where('site_id', 'in', ids).execute(),
+      this.db.selectFrom('float_switches').selectAll().where('site_id', 'in', ids).execute(),
+      this.db
+        .selectFrom('gateways')
+        .select(['id', 'site_id'])
+        .where('site_id', 'in', ids)
+        .where('revoked_at', 'is', null)
+        .execute(),
+      this.db.selectFrom('alert_settings').selectAll().where('site_id', 'in', ids).execute(),
+    ]);
+    const tankKey = new Map(tanks.map((t) => [t.id, t.key]));
+    const pumpKey = new Map(pumps.map((p) => [p.id, p.key]));
+
+    for (const site of sites) {
+      const bank = banks.find((b) => b.site_id === site.id);
+      const siteArrays = arrays.filter((a) => a.site_id === site.id);
+      const siteSettings = settings.filter((s) => s.site_id === site.id);
+      const overrides: Record<string, unknown> = {};
+      for (const s of siteSettings) overrides[s.kind] = s.params;
+      const names = new Map<string, string>();
+      const config: SiteConfig = {
+        timeZone: site.time_zone,
+        location: {
+          latitudeDegrees: site.latitude,
+          longitudeDegrees: site.longitude,
+          elevationMetres: site.elevation_m,
+        },
+        battery: bank
+          ? {
+              chemistry: bank.chemistry,
+              nominalVolts: bank.nominal_voltage_v,
+              capacityAmpHours: bank.capacity_ah,
+            }
+          : null,
+        // Only arrays that charge the bank count for "not charging"; pump-direct arrays are
+        // judged through their pump.
+        pvArrays: siteArrays
+          .filter((a) => a.purpose === 'battery_charging')
+          .map((a) => ({
+            key: a.key,
+            ratedWatts: a.rated_w,
+            tiltDegrees: a.tilt_deg,
+            azimuthDegrees: a.azimuth_deg,
+          })),
+        pumps: pumps
+          .filter((p) => p.site_id === site.id)
+          .map((p) => {
+            names.set(`pump:${p.key}`, p.name);
+            return {
+              key: p.key,
+              role: p.kind,
+              ratedCurrentAmps: p.rated_current_a,
+              ratedFlowCubicMetresPerSecond: p.rated_flow_m3s,
+              ratedWatts: p.motor_power_w,
+              fillsTankKey: p.fills_tank_id ? (tankKey.get(p.fills_tank_id) ?? null) : null,
+              lastRebuildT: p.last_rebuild_at ? p.last_rebuild_at.getTime() / 1000 : null,
+              rebuildIntervalHours: p.rebuild_interval_h,
+              supply: p.supply,
+              // Battery-run motors see the bank's voltage (for run energy without a voltage channel).
+              supplyVolts: p.supply === 'battery' && bank ? bank.nominal_voltage_v : null,
+              pvArrayKey: siteArrays.find((a) => a.pump_id === p.id)?.key ?? null,
+            };
+          }),
+        tanks: tanks
+          .filter((t) => t.site_id === site.id && t.kind === 'storage')
+          .flatMap((t) => {
+            const geometry = tankGeometry(t);
+            if (!geometry) return [];
+            names.set(`tank:${t.key}`, t.name);
+            return [{ key: t.key, geometry, sensorOffsetMetres: t.sensor_offset_m }];
+          }),
+        floatSwitches: floats
+          .filter((f) => f.site_id === site.id)
+          .map((f) => {
+            names.set(`float:${f.key}`, f.name);
+            return {
+              key: f.key,
+              tankKey: tankKey.get(f.tank_id) ?? '',
+              pumpKey: f.pump_id ? (pumpKey.get(f.pump_id) ?? null) : null,
+              // Both wirings the schema knows ('closes_on_low', 'opens_on_high') describe a
+              // pump-up float whose contacts are closed while it calls for water.
+              logic: 'closed_calls' as const,
+            };
+          }),
+        gateways: gateways
+          .filter((g) => g.site_id === site.id)
+          .map((g) => ({ id: g.id, reportingIntervalSeconds: site.reporting_interval_s })),
+      };
+      out.set(site.id, {
+        id: site.id,
+        companyId: site.company_id,
+        name: site.name,
+        config,
+        overrides: overrides as RuleParamsOverrides,
+        disabled: new Set(siteSettings.filter((s) => !s.enabled).map((s) => s.kind)),
+        equipmentNames: names,
+      });
+    }
+    return out;
+  }
+}
+
+function tankGeometry(t: {
+  geometry: 'vertical_cylinder' | 'horizontal_cylinder' | 'rectangular' | null;
+  diameter_m: number | null;
+  length_m: number | null;
+  width_m: number | null;
+  height_m: number | null;
+}): TankGeometry | null {
+  if (t.geometry === 'vertical_cylinder' && t.diameter_m && t.height_m) {
+    return { shape: 'vertical_cylinder', diameterMetres: t.diameter_m, heightMetres: t.height_m };
+  }
+  if (t.geometry === 'horizontal_cylinder' && t.diameter_m && t.length_m) {
+    return { shape: 'horizontal_cylinder', diameterMetres: t.diameter_m, lengthMetres: t.length_m };
+  }
+  if (t.geometry === 'rectangular' && t.length_m && t.width_m && t.height_m) {
+    return {
+      shape: 'rectangular',
+      lengthMetres: t.length_m,
+      widthMetres: t.width_m,
+      heightMetres: t.height_m,
+    };
+  }
+  return null;
+}

@@ -1,0 +1,116 @@
+import { useTestDatabase } from '@wellkept/db/testing';
+import { sql } from 'kysely';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { PartitionsService } from '../src/storage/partitions.service.js';
+import { TelemetryBatchRepository } from '../src/storage/telemetry-batch.repository.js';
+import { BucketsRepository } from '../src/storage/buckets.repository.js';
+import {
+  readingsOf,
+  seedSite,
+  startTestIngest,
+  type RunningIngest,
+} from './support/ingest-harness.js';
+
+const database = useTestDatabase('ingest_partitions');
+let ingest: RunningIngest;
+
+beforeAll(async () => {
+  ingest = await startTestIngest(database.url);
+});
+
+afterAll(async () => {
+  await ingest?.close();
+});
+
+describe('time partitions', () => {
+  it('creates partitions ahead of now and 31 days back at start-up', async () => {
+    const { rows } = await sql<{ name: string }>`
+      select c.relname as name from pg_inherits i join pg_class c on c.oid = i.inhrelid
+      where i.inhparent = 'readings'::regclass`.execute(database.db);
+    const day = (offset: number) =>
+      `readings_p${new Date(Date.now() + offset * 86_400_000).toISOString().slice(0, 10).replaceAll('-', '')}`;
+    const names = rows.map((r) => r.name);
+    expect(names).toEqual(expect.arrayContaining([day(-30), day(0), day(1), day(2)]));
+  });
+
+  it('stores records across a month (and year) boundary in their own partitions, queryable together', async () => {
+    const site = await seedSite(database.db);
+    // Written through the batch repository (the validator only takes records up to 30 days old,
+    // and the boundary here is a fixed one).
+    const boundary = Date.UTC(2026, 0, 1) / 1000;
+    const times = [boundary - 90, boundary - 30, boundary + 30, boundary + 90];
+    const repository = ingest.app.get(TelemetryBatchRepository);
+    await repository.commit([
+      {
+        gatewayId: site.gatewayId,
+        siteId: site.siteId,
+        messageId: 1,
+        receivedAt: Date.now(),
+        recordCount: times.length,
+        readings: times.map((t, i) => ({
+          name: 'battery/voltage',
+          pattern: 'battery/voltage' as const,
+          key: null,
+          t,
+          valueType: 'number' as const,
+          value: 25 + i,
+          unit: 'V' as const,
+        })),
+        rejects: [],
+      },
+    ]);
+    const { rows } = await sql<{ partition: string; value: number }>`
+      select tableoid::regclass::text as partition, value from readings
+      where site_id = ${site.siteId} order by time`.execute(database.db);
+    expect(rows).toEqual([
+      { partition: 'readings_p20251231', value: 25 },
+      { partition: 'readings_p20251231', value: 26 },
+      { partition: 'readings_p20260101', value: 27 },
+      { partition: 'readings_p20260101', value: 28 },
+    ]);
+    expect((await readingsOf(database.db, site.siteId)).map((r) => r.value)).toEqual([
+      25, 26, 27, 28,
+    ]);
+
+    // Minute buckets on both sides land in their monthly partitions too.
+    const buckets = ingest.app.get(BucketsRepository);
+    await database.db
+      .transaction()
+      .execute((trx) =>
+        buckets.recomputeMinutes(
+          trx,
+          [site.siteId, site.siteId],
+          [new Date((boundary - 60) * 1000), new Date(boundary * 1000)],
+        ),
+      );
+    const { rows: minuteRows } = await sql<{ partition: string; sample_count: number }>`
+      select tableoid::regclass::text as partition, sample_count from minute_buckets
+      where site_id = ${site.siteId} order by bucket_start`.execute(database.db);
+    expect(minuteRows).toEqual([
+      { partition: 'minute_buckets_p20251201', sample_count: 1 },
+      { partition: 'minute_buckets_p20260101', sample_count: 1 },
+    ]);
+  });
+
+  it('drops raw partitions older than the retention, whole', async () => {
+    const partitions = ingest.app.get(PartitionsService);
+    const old = Date.now() - 120 * 86_400_000;
+    await partitions.ensureCovering(old, old + 1000);
+    const name = `readings_p${new Date(old).toISOString().slice(0, 10).replaceAll('-', '')}`;
+    const exists = async () =>
+      (await sql<{ r: string | null }>`select to_regclass(${name})::text as r`.execute(database.db))
+        .rows[0]?.r;
+    expect(await exists()).toBe(name);
+    const dropped = await partitions.dropExpired();
+    expect(dropped).toContain(name);
+    expect(await exists()).toBeNull();
+    // Partitions inside the retention stay.
+    expect(
+      dropped.every(
+        (n) =>
+          n <
+          `readings_p${new Date(Date.now() - 89 * 86_400_000).toISOString().slice(0, 10).replaceAll('-', '')}`,
+      ),
+    ).toBe(true);
+  });
+});
