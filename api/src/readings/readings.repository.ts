@@ -1,0 +1,99 @@
+import { Injectable } from '@nestjs/common';
+import type { Database } from '@wellkept/db';
+import { sql } from 'kysely';
+import type { VisibleSite } from '../access/session-user.js';
+import { InjectDb } from '../database/database.module.js';
+import type { SeriesSource } from './series-resolution.js';
+
+export interface ChannelRow {
+  id: number;
+  name: string;
+  unit: string;
+  value_kind: 'number' | 'boolean' | 'string';
+  last_time: Date | null;
+  last_value: number | null;
+  last_text: string | null;
+}
+
+/** One aggregated point of one channel. */
+export interface SeriesRow {
+  channel_id: number;
+  t: number;
+  mean: number;
+  min: number;
+  max: number;
+  rows: number;
+}
+
+const BUCKET_TABLE = {
+  minute: 'minute_buckets',
+  hour: 'hour_buckets',
+  day: 'day_buckets',
+} as const;
+
+const BUCKET_SECONDS = { minute: 60, hour: 3600, day: 86400 } as const;
+
+/** Telemetry reads: channels, series from raw readings or buckets, and streamed exports. */
+@Injectable()
+export class ReadingsRepository {
+  constructor(@InjectDb() private readonly db: Database) {}
+
+  async channels(site: VisibleSite): Promise<ChannelRow[]> {
+    return this.db
+      .selectFrom('channels')
+      .select(['id', 'name', 'unit', 'value_kind', 'last_time', 'last_value', 'last_text'])
+      .where('site_id', '=', site.id)
+      .orderBy('name')
+      .execute();
+  }
+
+  /**
+   * Points of several channels between two instants. Bucket sources are regrouped into
+   * `stepSeconds`-wide points on the UTC epoch grid: the mean is weighted by sample counts
+   * (sum of sums over sum of counts), so it equals the mean of the raw readings inside.
+   */
+  async series(
+    site: VisibleSite,
+    channelIds: number[],
+    source: SeriesSource,
+    stepSeconds: number,
+    from: Date,
+    to: Date,
+  ): Promise<SeriesRow[]> {
+    if (source === 'raw') {
+      const { rows } = await sql<SeriesRow>`
+        select channel_id, (extract(epoch from time) * 1000)::float8 as t,
+               value as mean, value as min, value as max, 1 as rows
+          from readings
+         where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
+           and time >= ${from} and time < ${to} and value is not null
+         order by channel_id, time`.execute(this.db);
+      return rows;
+    }
+    const table = sql.table(BUCKET_TABLE[source]);
+    if (stepSeconds === BUCKET_SECONDS[source]) {
+      // Points are the buckets themselves: read them in index order, nothing to regroup.
+      const { rows } = await sql<SeriesRow>`
+        select channel_id, (extract(epoch from bucket_start) * 1000)::float8 as t,
+               sum / sample_count as mean, min, max, 1 as rows
+          from ${table}
+         where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
+           and bucket_start >= ${from} and bucket_start < ${to}
+         order by channel_id, bucket_start`.execute(this.db);
+      return rows;
+    }
+    const { rows } = await sql<SeriesRow>`
+      select channel_id,
+             (floor(extract(epoch from bucket_start) / ${stepSeconds}) * ${stepSeconds} * 1000)::float8 as t,
+             sum(sum) / sum(sample_count) as mean,
+             min(min) as min,
+             max(max) as max,
+             count(*)::int as rows
+        from ${table}
+       where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
+         and bucket_start >= ${from} and bucket_start < ${to}
+       group by 1, 2
+       order by 1, 2`.execute(this.db);
+    return rows;
+  }
+}

@@ -1,0 +1,113 @@
+import { useTestDatabase } from '@wellkept/db/testing';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createCompany, createSite, createUser, signIn } from './support/fixtures.js';
+import { startTestApp, type TestApp } from './support/test-app.js';
+import { createChannel, insertRawReadings, rawValue, rollUpAll } from './support/telemetry.js';
+
+const t = useTestDatabase('api_series');
+let app: TestApp;
+let cookie: string;
+let siteId: string;
+const STEP_S = 300; // the site reports every 5 minutes
+const START = new Date('2025-01-01T00:00:00Z');
+const COUNT = 40 * 288; // 40 days of readings
+
+beforeAll(async () => {
+  app = await startTestApp(t.url);
+  const company = await createCompany(t.db);
+  siteId = await createSite(t.db, company, { reportingIntervalS: STEP_S });
+  const admin = await createUser(t.db, company, 'admin');
+  const voltage = await createChannel(t.db, siteId, 'battery/voltage', 'V');
+  await createChannel(t.db, siteId, 'controller/stage', '', 'string');
+  await insertRawReadings(t.db, siteId, voltage, START, COUNT, STEP_S);
+  await rollUpAll(t.db, siteId, START, new Date(START.getTime() + COUNT * STEP_S * 1000));
+  cookie = await signIn(app.app, admin.email);
+});
+afterAll(async () => app?.close());
+
+/** Mean/min/max per step computed straight from the generated raw values. */
+function expectedFromRaw(from: Date, to: Date, stepS: number) {
+  const groups = new Map<number, number[]>();
+  for (let i = 0; i < COUNT; i++) {
+    const tMs = START.getTime() + i * STEP_S * 1000;
+    if (tMs < from.getTime() || tMs >= to.getTime()) continue;
+    const key = Math.floor(tMs / 1000 / stepS) * stepS * 1000;
+    const list = groups.get(key) ?? [];
+    list.push(rawValue(i));
+    groups.set(key, list);
+  }
+  const keys = [...groups.keys()].sort((a, b) => a - b);
+  return {
+    t: keys,
+    mean: keys.map((k) => groups.get(k)!.reduce((a, b) => a + b, 0) / groups.get(k)!.length),
+    min: keys.map((k) => Math.min(...groups.get(k)!)),
+    max: keys.map((k) => Math.max(...groups.get(k)!)),
+  };
+}
+
+async function series(from: Date, to: Date, channels = 'battery/voltage') {
+  const res = await app.app.inject({
+    method: 'GET',
+    url: `/api/sites/${siteId}/series`,
+    query: { channels, from: from.toISOString(), to: to.toISOString() },
+    headers: { cookie },
+  });
+  return res;
+}
+
+const day = 86400_000;
+describe('series resolution', () => {
+  it.each([
+    ['1 day', 1, 'raw', 300],
+    ['7 days', 7, 'minute', 600],
+    ['30 days', 30, 'hour', 3600],
+    ['1 year', 365, 'hour', 21600],
+    ['3 years', 3 * 365, 'day', 86400],
+  ] as const)(
+    '%s reads %s buckets, %s-second points, whose aggregates equal the raw rows',
+    async (_l, days, source, stepS) => {
+      const from = new Date(START.getTime() + 2 * day + 7 * 60_000); // deliberately not aligned
+      const to = new Date(from.getTime() + days * day);
+      const res = await series(from, to);
+      expect(res.statusCode).toBe(200);
+      const body = res.json();
+      expect(body.resolution).toMatchObject({ source, stepSeconds: stepS });
+      const [s] = body.series;
+      expect(s.t.length).toBeLessThanOrEqual(2000);
+      // A bucket is in the range when its start is: compare against the raw rows of those buckets.
+      const alignS = { raw: 1, minute: 60, hour: 3600, day: 86400 }[source as string]!;
+      const ceil = (d: Date) => new Date(Math.ceil(d.getTime() / 1000 / alignS) * alignS * 1000);
+      const expected = expectedFromRaw(ceil(from), ceil(to), stepS);
+      expect(s.t).toEqual(expected.t);
+      for (let i = 0; i < expected.t.length; i++) {
+        expect(s.mean[i]).toBeCloseTo(expected.mean[i]!, 9);
+        expect(s.min[i]).toBeCloseTo(expected.min[i]!, 9);
+        expect(s.max[i]).toBeCloseTo(expected.max[i]!, 9);
+      }
+    },
+  );
+
+  it('says which channel is unknown and refuses text channels', async () => {
+    const from = START;
+    const to = new Date(START.getTime() + day);
+    const unknown = await series(from, to, 'battery/voltage,pump/main/current');
+    expect(unknown.statusCode).toBe(400);
+    expect(unknown.json().error.message).toContain('pump/main/current');
+    const text = await series(from, to, 'controller/stage');
+    expect(text.statusCode).toBe(400);
+    expect(text.json().error.code).toBe('text_channel');
+  });
+
+  it('names the bad field when the range is backwards or not a date', async () => {
+    const backwards = await series(new Date(START.getTime() + day), START);
+    expect(backwards.statusCode).toBe(400);
+    expect(backwards.json().error.fields).toEqual([{ path: 'from', message: 'must be before to' }]);
+    const res = await app.app.inject({
+      method: 'GET',
+      url: `/api/sites/${siteId}/series?channels=battery/voltage&from=yesterday`,
+      headers: { cookie },
+    });
+    expect(res.statusCode).toBe(400);
+    expect(res.json().error.fields[0].path).toBe('from');
+  });
+});
