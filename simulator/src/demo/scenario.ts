@@ -4,6 +4,8 @@
  * `.example` domain (RFC 2606).
  */
 
+import type { PumpSpec, SiteSpec, TankSpec } from '../site-spec.js';
+
 export interface DemoUser {
   email: string;
   name: string;
@@ -15,71 +17,10 @@ export interface DemoUser {
   sites?: string[];
 }
 
-export interface DemoPump {
-  key: string;
-  name: string;
-  kind: 'well' | 'booster' | 'transfer';
-  supply: 'battery' | 'pv_direct';
-  ratedCurrentA: number;
-  ratedFlowM3s?: number;
-  motorPowerW?: number;
-  rebuildIntervalH?: number;
-  fillsTank?: string;
-  drawsFromTank?: string;
-}
-
-export interface DemoTank {
-  key: string;
-  name: string;
-  kind: 'storage' | 'pressure';
-  geometry?: 'vertical_cylinder' | 'horizontal_cylinder' | 'rectangular';
-  diameterM?: number;
-  lengthM?: number;
-  widthM?: number;
-  heightM?: number;
-  sensorOffsetM?: number;
-  capacityM3?: number;
-  prechargePa?: number;
-  cutInPa?: number;
-  cutOutPa?: number;
-}
-
-export interface DemoSite {
-  key: string;
-  name: string;
-  locality: string;
-  latitude: number;
-  longitude: number;
-  elevationM: number;
-  timeZone: string;
-  notes: string;
-  battery?: {
-    chemistry: 'flooded' | 'agm' | 'gel' | 'lifepo4';
-    nominalVoltageV: 12 | 24 | 48;
-    capacityAh: number;
-    strings: number;
-  };
-  pvArrays: {
-    key: string;
-    name: string;
-    ratedW: number;
-    purpose: 'battery_charging' | 'pump_direct';
-    pump?: string;
-  }[];
-  pumps: DemoPump[];
-  tanks: DemoTank[];
-  floats: {
-    key: string;
-    name: string;
-    tank: string;
-    pump: string;
-    logic: 'closes_on_low' | 'opens_on_high';
-  }[];
-  well?: { depthM: number; casingDiameterM: number; staticLevelM: number; pumpSettingM: number };
-  gatewayId: string;
-  /** A fault under way in the demo, for the simulator (see simulator/src/faults). */
-  faults?: { kind: string; startDaysAgo: number; durationHours: number }[];
-}
+/** A demo site: the simulator's site description (see ../site-spec.ts). */
+export type DemoSite = SiteSpec;
+export type DemoPump = PumpSpec;
+export type DemoTank = TankSpec;
 
 const PSI = 6894.757293168;
 const GALLON = 0.003785411784;
@@ -194,6 +135,8 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 96, casingDiameterM: 6 * INCH, staticLevelM: 41, pumpSettingM: 70 },
     gatewayId: 'gw-juniper-bench',
+    waterUse: { dailyCubicMetres: 0.9, profile: 'household' },
+    cloudiness: 0.2,
   },
   {
     key: 'owl-creek-cabin',
@@ -240,6 +183,8 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 55, casingDiameterM: 4 * INCH, staticLevelM: 18, pumpSettingM: 40 },
     gatewayId: 'gw-owl-creek',
+    waterUse: { dailyCubicMetres: 0.35, profile: 'cabin' },
+    cloudiness: 0.5,
     faults: [{ kind: 'parasitic_load', startDaysAgo: 3, durationHours: 24 * 10 }],
   },
   {
@@ -305,7 +250,16 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 120, casingDiameterM: 6 * INCH, staticLevelM: 52, pumpSettingM: 90 },
     gatewayId: 'gw-red-mesa',
-    faults: [{ kind: 'float_stuck_closed', startDaysAgo: 1, durationHours: 24 * 10 }],
+    waterUse: { dailyCubicMetres: 3.2, profile: 'livestock' },
+    cloudiness: 0.2,
+    faults: [
+      {
+        kind: 'float_stuck_closed',
+        startDaysAgo: 1,
+        durationHours: 24 * 10,
+        target: 'north-float',
+      },
+    ],
   },
   {
     key: 'saltbush-tank',
@@ -352,6 +306,9 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 80, casingDiameterM: 0.1016, staticLevelM: 30, pumpSettingM: 60 },
     gatewayId: 'gw-saltbush',
+    faults: [{ kind: 'bad_payloads', startDaysAgo: 2, durationHours: 24 * 10 }],
+    waterUse: { dailyCubicMetres: 1.2, profile: 'livestock' },
+    cloudiness: 0.1,
   },
   {
     key: 'quail-hollow',
@@ -399,6 +356,8 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 45, casingDiameterM: 4 * INCH, staticLevelM: 28, pumpSettingM: 38 },
     gatewayId: 'gw-quail-hollow',
+    waterUse: { dailyCubicMetres: 0.55, profile: 'household' },
+    cloudiness: 0.35,
     faults: [{ kind: 'well_drawn_down', startDaysAgo: 2, durationHours: 24 * 10 }],
   },
   {
@@ -465,6 +424,8 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 150, casingDiameterM: 6 * INCH, staticLevelM: 88, pumpSettingM: 130 },
     gatewayId: 'gw-pinon-ridge',
+    waterUse: { dailyCubicMetres: 1.1, profile: 'household' },
+    cloudiness: 0.3,
     faults: [{ kind: 'bladder_lost_precharge', startDaysAgo: 1, durationHours: 24 * 10 }],
   },
   {
@@ -513,6 +474,8 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 110, casingDiameterM: 0.1524, staticLevelM: 46, pumpSettingM: 95 },
     gatewayId: 'gw-dune-gate',
+    waterUse: { dailyCubicMetres: 1.6, profile: 'livestock' },
+    cloudiness: 0.1,
     faults: [{ kind: 'gateway_offline', startDaysAgo: 0.25, durationHours: 24 * 10 }],
   },
   {
@@ -560,5 +523,7 @@ export const demoSites: DemoSite[] = [
     ],
     well: { depthM: 70, casingDiameterM: 6 * INCH, staticLevelM: 20 * FOOT, pumpSettingM: 55 },
     gatewayId: 'gw-cedar-spring',
+    waterUse: { dailyCubicMetres: 0.8, profile: 'household' },
+    cloudiness: 0.3,
   },
 ];
