@@ -23,5 +23,39 @@ export default tseslint.config(
     files: ['dashboard/src/**/*.{ts,tsx}'],
     languageOptions: { globals: { ...globals.browser } },
   },
+  // Dashboard imports go one way: app -> features -> shared (components, lib, config).
+  {
+    files: ['dashboard/src/{components,lib,config}/**/*.{ts,tsx}'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              regex: '(^|/)(features|app)/',
+              message: 'Shared code must not import from features or app.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
+    files: ['dashboard/src/features/**/*.{ts,tsx}'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            { regex: '(^|/)app/', message: 'Features must not import from app.' },
+            {
+              regex: '^\\.\\./\\.\\./(?!\\.\\.)[^/]+/',
+              message: 'Features do not import each other; compose them in app/routes.',
+            },
+          ],
+        },
+      ],
+    },
+  },
   prettier,
 );
