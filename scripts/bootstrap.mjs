@@ -4,7 +4,7 @@
 // out of date, then hands over to the TypeScript script named on the command line.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -19,11 +19,47 @@ const scripts = {
   simulate: 'simulator/src/cli.ts',
 };
 
+// Two commands started at once (npm start in one terminal, npm test in another) must not run
+// npm ci over each other: the first takes this lock directory, the second waits and re-checks.
+function withInstallLock(work) {
+  const lockDir = join(root, '.npm-install.lock');
+  const pidFile = join(lockDir, 'pid');
+  for (;;) {
+    try {
+      mkdirSync(lockDir);
+      writeFileSync(pidFile, String(process.pid));
+      break;
+    } catch {
+      let holder = 0;
+      try {
+        holder = Number(readFileSync(pidFile, 'utf8'));
+        process.kill(holder, 0);
+      } catch {
+        // The holder died (or has not written its pid yet: give it a moment first).
+        if (holder) rmSync(lockDir, { recursive: true, force: true });
+      }
+      Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 500);
+    }
+  }
+  try {
+    work();
+  } finally {
+    rmSync(lockDir, { recursive: true, force: true });
+  }
+}
+
 function ensureNpmPackages() {
   const lock = join(root, 'package-lock.json');
   const marker = join(root, 'node_modules', '.wellkept-lock-hash');
   const hash = createHash('sha256').update(readFileSync(lock)).digest('hex');
-  if (existsSync(marker) && readFileSync(marker, 'utf8') === hash) return;
+  const upToDate = () => existsSync(marker) && readFileSync(marker, 'utf8') === hash;
+  if (upToDate()) return;
+  withInstallLock(() => {
+    if (!upToDate()) install(marker, hash);
+  });
+}
+
+function install(marker, hash) {
   // --ignore-scripts: every native package here ships prebuilt binaries (or platform packages);
   // their install scripts would try to build from source with tools the lock file lacks.
   console.log('[setup] installing npm packages (npm ci)...');
