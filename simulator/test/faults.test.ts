@@ -140,17 +140,7 @@ describe('each fault produces the signature its rule detects', () => {
 describe('a normal week', () => {
   for (const spec of demoSites) {
     it(`raises no alert at ${spec.key}`, () => {
-      const lithium = spec.battery?.chemistry === 'lifepo4';
-      const result = replayAlerts({
-        site: site(spec.key),
-        fromT,
-        toT: fromT + 7 * DAY,
-        // Core's LiFePO4 rest curve falls 0.086 V a cell between 100 % and 90 %, so a bank
-        // resting from full loses more than core's 0.0375 V/cell default over an ordinary
-        // night; an installer sets a LiFePO4 cabin's limit to what its nights look like.
-        // (Reported to core; the faults above use the defaults.)
-        ...(lithium ? { overrides: { overnight_sag: { maxDropVoltsPerCell: 0.1 } } } : {}),
-      });
+      const result = replayAlerts({ site: site(spec.key), fromT, toT: fromT + 7 * DAY });
       expect(result.changes).toEqual([]);
     }, 120_000);
   }
