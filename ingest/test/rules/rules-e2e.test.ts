@@ -196,10 +196,12 @@ function mailsTo(all: CaughtMail[], p: Person): CaughtMail[] {
 }
 
 describe('alert kinds end to end', () => {
-  it('coalesces a back-fill: a day in 96 packs costs a few evaluations', () => {
+  it('coalesces a back-fill: a day in 96 packs costs a few evaluations, not one per pack', () => {
     expect(backfillPacks).toBe(96);
     expect(backfillEvaluations).toBeGreaterThanOrEqual(1);
-    expect(backfillEvaluations).toBeLessThanOrEqual(6);
+    // Usually 2 to 4; the bound leaves room for a busy machine stretching the commits past the
+    // debounce window, and still fails if each pack were evaluated on its own.
+    expect(backfillEvaluations).toBeLessThanOrEqual(backfillPacks / 8);
   });
 
   for (const kind of Object.keys(FAULTS) as AlertKind[]) {
