@@ -61,7 +61,7 @@ describe('series resolution', () => {
     ['1 day', 1, 'raw', 300],
     ['7 days', 7, 'minute', 600],
     ['30 days', 30, 'hour', 3600],
-    ['1 year', 365, 'hour', 21600],
+    ['1 year', 365, 'six_hour', 21600],
     ['3 years', 3 * 365, 'day', 86400],
   ] as const)(
     '%s reads %s buckets, %s-second points, whose aggregates equal the raw rows',
@@ -75,7 +75,9 @@ describe('series resolution', () => {
       const [s] = body.series;
       expect(s.t.length).toBeLessThanOrEqual(2000);
       // A bucket is in the range when its start is: compare against the raw rows of those buckets.
-      const alignS = { raw: 1, minute: 60, hour: 3600, day: 86400 }[source as string]!;
+      const alignS = { raw: 1, minute: 60, hour: 3600, six_hour: 21600, day: 86400 }[
+        source as string
+      ]!;
       const ceil = (d: Date) => new Date(Math.ceil(d.getTime() / 1000 / alignS) * alignS * 1000);
       const expected = expectedFromRaw(ceil(from), ceil(to), stepS);
       expect(s.t).toEqual(expected.t);

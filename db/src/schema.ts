@@ -400,6 +400,22 @@ export interface Sites {
   updated_at: Generated<Timestamp>;
 }
 
+export interface SixHourBuckets {
+  bucket_start: Timestamp;
+  channel_id: number;
+  first_time: Timestamp;
+  first_value: number;
+  last_time: Timestamp;
+  last_value: number;
+  max: number;
+  min: number;
+  on_seconds: number | null;
+  sample_count: number;
+  site_id: string;
+  starts: number | null;
+  sum: number;
+}
+
 export interface Tanks {
   capacity_m3: number | null;
   created_at: Generated<Timestamp>;
@@ -483,6 +499,7 @@ export interface DB {
   service_visits: ServiceVisits;
   sign_in_attempts: SignInAttempts;
   sites: Sites;
+  six_hour_buckets: SixHourBuckets;
   tanks: Tanks;
   users: Users;
   wells: Wells;

@@ -42,7 +42,7 @@ function pack(offsets: number[]): string {
 }
 
 async function bucket(
-  table: 'minute_buckets' | 'hour_buckets' | 'day_buckets',
+  table: 'minute_buckets' | 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
   name: string,
   start: Date,
 ) {
@@ -168,38 +168,52 @@ describe('late data (a pack six hours old)', () => {
     expect(run.water_m3).toBeCloseTo(Math.PI * 0.3, 3);
   });
 
-  it('keeps hour buckets equal to an independent aggregate of the raw rows', async () => {
-    const { rows } = await sql<{ name: string; ok: boolean }>`
+  it.each([
+    ['hour_buckets', '1 hour'],
+    ['six_hour_buckets', '6 hours'],
+  ] as const)(
+    'keeps %s equal to an independent aggregate of the raw rows',
+    async (table, width) => {
+      const { rows } = await sql<{ name: string; ok: boolean }>`
       with raw as (
-        select r.channel_id, date_trunc('hour', r.time, 'UTC') as hour, count(*)::int as n,
-               sum(r.value) as s, min(r.value) as lo, max(r.value) as hi,
+        select r.channel_id,
+               date_bin(${width}::interval, r.time, timestamptz '2000-01-01 00:00:00+00') as period,
+               count(*)::int as n, sum(r.value) as s, min(r.value) as lo, max(r.value) as hi,
                min(r.time) as ft, max(r.time) as lt
         from readings r where r.site_id = ${site.siteId} and r.value is not null
         group by 1, 2)
       select c.name, (h.sample_count = raw.n and h.sum = raw.s and h.min = raw.lo and h.max = raw.hi
                       and h.first_time = raw.ft and h.last_time = raw.lt) as ok
       from raw join channels c on c.id = raw.channel_id
-      left join hour_buckets h on h.site_id = ${site.siteId} and h.channel_id = raw.channel_id
-        and h.bucket_start = raw.hour
+      left join ${sql.table(table)} h on h.site_id = ${site.siteId}
+        and h.channel_id = raw.channel_id and h.bucket_start = raw.period
       order by c.name`.execute(database.db);
-    expect(rows).toEqual([
-      { name: 'battery/voltage', ok: true },
-      { name: 'pump/well/current', ok: true },
-      { name: 'pump/well/running', ok: true },
-      { name: 'tank/main/level', ok: true },
-    ]);
-  });
+      expect(rows).toEqual([
+        { name: 'battery/voltage', ok: true },
+        { name: 'pump/well/current', ok: true },
+        { name: 'pump/well/running', ok: true },
+        { name: 'tank/main/level', ok: true },
+      ]);
+    },
+  );
 
   it('rolls closed minutes up from raw rows and adds them to hours without counting twice', async () => {
     // Move the watermark back 7 hours: the next sweep rolls those minutes up as if they had
     // just closed (the on-time path), on top of the late-data recomputation done above.
     await sql`update rollup_state set watermark = to_timestamp(${t0 - HOUR})`.execute(database.db);
     await sql`delete from hour_buckets where site_id = ${site.siteId}`.execute(database.db);
+    await sql`delete from six_hour_buckets where site_id = ${site.siteId}`.execute(database.db);
     await sql`delete from day_buckets where site_id = ${site.siteId}`.execute(database.db);
     const sweep = await ingest.sweep();
     expect(sweep.closed?.from).toEqual(new Date((t0 - HOUR) * 1000));
     const hour = await bucket('hour_buckets', 'pump/well/running', new Date((t0 - 600) * 1000));
     expect(hour).toMatchObject({ sample_count: 13, sum: 11, on_seconds: 330, starts: 1 });
+    const { rows: periods } = await sql<{ start: Date }>`
+      select date_bin('6 hours', to_timestamp(${t0}), timestamptz '2000-01-01 00:00:00+00') as start`.execute(
+      database.db,
+    );
+    const quarterDay = await bucket('six_hour_buckets', 'pump/well/running', periods[0]!.start);
+    expect(quarterDay).toMatchObject({ sample_count: 13, on_seconds: 330, starts: 1 });
     const runs = await database.db
       .selectFrom('pump_runs')
       .select('duration_s')

@@ -1,5 +1,5 @@
 /** Where a series' points come from: raw readings or one of ingest's bucket tables. */
-export type SeriesSource = 'raw' | 'minute' | 'hour' | 'day';
+export type SeriesSource = 'raw' | 'minute' | 'hour' | 'six_hour' | 'day';
 
 export interface SeriesResolution {
   source: SeriesSource;
@@ -11,6 +11,7 @@ export interface SeriesResolution {
 const SOURCE_SECONDS: Record<Exclude<SeriesSource, 'raw'>, number> = {
   minute: 60,
   hour: 3600,
+  six_hour: 21600,
   day: 86400,
 };
 
@@ -25,8 +26,8 @@ const LADDER: [number, Exclude<SeriesSource, 'raw'>][] = [
   [3600, 'hour'],
   [7200, 'hour'],
   [10800, 'hour'],
-  [21600, 'hour'],
-  [43200, 'hour'],
+  [21600, 'six_hour'],
+  [43200, 'six_hour'],
   [86400, 'day'],
   [2 * 86400, 'day'],
   [7 * 86400, 'day'],
@@ -53,7 +54,7 @@ export function pickResolution(spanSeconds: number, rawIntervalSeconds: number):
     chosen = [weeks * 7 * 86400, 'day'];
   }
   const [step, source] = chosen;
-  for (const coarser of ['hour', 'day'] as const) {
+  for (const coarser of ['hour', 'six_hour', 'day'] as const) {
     const native = SOURCE_SECONDS[coarser];
     if (
       native > SOURCE_SECONDS[source] &&

@@ -49,20 +49,22 @@ export function rawValue(i: number, base = 25, amplitude = 2): number {
 }
 
 /**
- * Rolls raw readings up into minute, hour and day buckets (UTC) the way ingest's roll-up
+ * Rolls raw readings up into minute, hour, six-hour and day buckets (UTC) the way ingest's roll-up
  * defines them: count, sum, min, max, first and last value with their times.
  */
 export async function rollUpAll(db: Database, siteId: string, from: Date, to: Date): Promise<void> {
   await ensureTimePartitions(db, 'minute_buckets', from, to);
-  for (const [table, unit] of [
-    ['minute_buckets', 'minute'],
-    ['hour_buckets', 'hour'],
-    ['day_buckets', 'day'],
+  for (const [table, width] of [
+    ['minute_buckets', '1 minute'],
+    ['hour_buckets', '1 hour'],
+    ['six_hour_buckets', '6 hours'],
+    ['day_buckets', '1 day'],
   ] as const) {
     await sql`
       insert into ${sql.table(table)} (site_id, channel_id, bucket_start, sample_count, sum, min, max,
                                        first_value, first_time, last_value, last_time)
-      select site_id, channel_id, date_trunc(${unit}, time, 'UTC'), count(*), sum(value), min(value), max(value),
+      select site_id, channel_id, date_bin(${width}::interval, time, timestamptz '2000-01-01 00:00:00+00'),
+             count(*), sum(value), min(value), max(value),
              (array_agg(value order by time))[1], min(time),
              (array_agg(value order by time desc))[1], max(time)
         from readings

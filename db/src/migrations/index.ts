@@ -3,6 +3,7 @@ import * as init from './20261202_0400_init.js';
 import * as ingestRollups from './20261202_0510_ingest_rollups.js';
 import * as alertNotifications from './20261202_0700_alert_notifications.js';
 import * as fastTimeZoneCheck from './20261202_1100_fast_time_zone_check.js';
+import * as sixHourBuckets from './20261202_1130_six_hour_buckets.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -13,4 +14,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_0510_ingest_rollups': ingestRollups,
   '20261202_0700_alert_notifications': alertNotifications,
   '20261202_1100_fast_time_zone_check': fastTimeZoneCheck,
+  '20261202_1130_six_hour_buckets': sixHourBuckets,
 };

@@ -46,7 +46,9 @@ const OVERWRITE = sql`
   on_seconds = excluded.on_seconds, starts = excluded.starts`;
 
 /** Adds freshly closed minutes to an hour or day bucket that may already hold earlier ones. */
-function accumulate(table: 'hour_buckets' | 'day_buckets'): RawBuilder<unknown> {
+function accumulate(
+  table: 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
+): RawBuilder<unknown> {
   const t = sql.table(table);
   return sql`
   sample_count = ${t}.sample_count + excluded.sample_count,
@@ -66,9 +68,14 @@ function accumulate(table: 'hour_buckets' | 'day_buckets'): RawBuilder<unknown> 
 /** The site's local day that holds a bucket (day buckets follow the site's time zone). */
 const LOCAL_DAY = sql`date_trunc('day', m.bucket_start, s.time_zone)`;
 
+/** The UTC quarter-day (00, 06, 12, 18 h) that holds an instant. */
+const sixHourOf = (t: RawBuilder<unknown>) =>
+  sql`date_bin('6 hours', ${t}, timestamptz '2000-01-01 00:00:00+00')`;
+
 /**
  * SQL of the bucket roll-up. Minute buckets are computed from raw readings; hour buckets (UTC
- * hours) and day buckets (local days of the site) from minute buckets, either by adding newly
+ * hours), six-hour buckets (UTC quarter-days, for long charts) and day buckets (local days of
+ * the site) from minute buckets, either by adding newly
  * closed minutes (`accumulate`) or, for periods that received late rows, by recomputing them
  * whole from their minutes. String channels (controller stage) have no numeric buckets.
  */
@@ -92,7 +99,7 @@ export class BucketsRepository {
     return Number(result.numAffectedRows ?? 0);
   }
 
-  /** Adds the minute buckets of [from, to) to their hour and day buckets. */
+  /** Adds the minute buckets of [from, to) to their hour, six-hour and day buckets. */
   async accumulateMinutes(trx: Tx, from: Date, to: Date): Promise<void> {
     await sql`
       insert into hour_buckets as hour_buckets (${BUCKET_COLUMNS})
@@ -101,6 +108,15 @@ export class BucketsRepository {
       where m.bucket_start >= ${from} and m.bucket_start < ${to}
       group by 1, 2, 3
       on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('hour_buckets')}`.execute(
+      trx,
+    );
+    await sql`
+      insert into six_hour_buckets as six_hour_buckets (${BUCKET_COLUMNS})
+      select m.site_id, m.channel_id, ${sixHourOf(sql`m.bucket_start`)}, ${MERGED_AGGREGATES}
+      from minute_buckets m
+      where m.bucket_start >= ${from} and m.bucket_start < ${to}
+      group by 1, 2, 3
+      on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('six_hour_buckets')}`.execute(
       trx,
     );
     await sql`
@@ -114,7 +130,10 @@ export class BucketsRepository {
     );
   }
 
-  /** Recomputes the given (site, minute) buckets from raw rows, then their hours and days whole. */
+  /**
+   * Recomputes the given (site, minute) buckets from raw rows, then their hours, six-hour
+   * periods and days whole.
+   */
   async recomputeMinutes(
     trx: Tx,
     sites: readonly string[],
@@ -148,6 +167,17 @@ export class BucketsRepository {
       from touched t join minute_buckets m on m.site_id = t.site_id
         and m.bucket_start >= t.hour and m.bucket_start < t.hour + interval '1 hour'
       group by m.site_id, m.channel_id, t.hour
+      on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
+
+    await sql`
+      with touched as (
+        select distinct p.site_id, ${sixHourOf(sql`p.minute`)} as period
+        from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
+      insert into six_hour_buckets (${BUCKET_COLUMNS})
+      select m.site_id, m.channel_id, t.period, ${MERGED_AGGREGATES}
+      from touched t join minute_buckets m on m.site_id = t.site_id
+        and m.bucket_start >= t.period and m.bucket_start < t.period + interval '6 hours'
+      group by m.site_id, m.channel_id, t.period
       on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
 
     await sql`

@@ -6,7 +6,11 @@ export interface SeriesResponse {
   siteId: string;
   from: string;
   to: string;
-  resolution: { source: 'raw' | 'minute' | 'hour' | 'day'; stepSeconds: number; label: string };
+  resolution: {
+    source: 'raw' | 'minute' | 'hour' | 'six_hour' | 'day';
+    stepSeconds: number;
+    label: string;
+  };
   rowsRead: number;
   series: {
     channel: string;
