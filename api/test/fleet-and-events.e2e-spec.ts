@@ -115,6 +115,26 @@ describe('fleet overview', () => {
     expect(alder.spark.values[0]).toBeCloseTo(25.23, 6);
   });
 
+  it('ranks a site whose gateway went quiet as silent, not act, whatever the alert severity', async () => {
+    const alert = await t.db
+      .insertInto('alerts')
+      .values({ site_id: sites.Alder!, kind: 'gateway_silent', severity: 'act', status: 'open' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    try {
+      const body = (
+        await app.app.inject({ method: 'GET', url: '/api/fleet', headers: { cookie: admin } })
+      ).json();
+      expect(
+        body.sites.map((s: { name: string; health: string }) => `${s.name}:${s.health}`),
+      ).toEqual(['Cedar:act', 'Alder:silent', 'Dogwood:silent', 'Birch:watch']);
+      expect(body.counts).toEqual({ act: 1, silent: 2, watch: 1, steady: 0 });
+      expect(body.sites[1].healthReason).toBe('no recent data');
+    } finally {
+      await t.db.deleteFrom('alerts').where('id', '=', alert.id).execute();
+    }
+  });
+
   it('pages worst first while the counts cover the whole fleet', async () => {
     const res = await app.app.inject({
       method: 'GET',

@@ -19,8 +19,8 @@ export const SITE_HEALTH_LABELS: Readonly<Record<SiteHealth, string>> = {
 export const SITE_HEALTH_ORDER: readonly SiteHealth[] = ['act', 'silent', 'watch', 'steady'];
 
 /**
- * Health of a site: `act` when any open alert needs action; otherwise `silent` when a
- * gateway_silent alert is open or no reading is newer than `silentAfterSeconds`; otherwise `watch`
+ * Health of a site: `act` when any open alert other than gateway_silent needs action; otherwise
+ * `silent` when a gateway_silent alert is open or no reading is newer than `silentAfterSeconds`; otherwise `watch`
  * when any alert is open; otherwise `steady`.
  */
 export function siteHealth(params: {
@@ -31,7 +31,11 @@ export function siteHealth(params: {
   /** Default 15 minutes. */
   silentAfterSeconds?: number;
 }): SiteHealth {
-  const severities: AlertSeverity[] = params.openAlerts.map((a) => a.severity);
+  // A gateway-silent alert says "no data", whatever its severity: it makes the site silent,
+  // not act, so the board tells a quiet gateway from a site that needs a visit.
+  const severities: AlertSeverity[] = params.openAlerts
+    .filter((a) => a.kind !== 'gateway_silent')
+    .map((a) => a.severity);
   if (severities.includes('act')) return 'act';
   const silentAfter = params.silentAfterSeconds ?? 900;
   const noData = params.lastReadingT === null || params.nowT - params.lastReadingT > silentAfter;

@@ -71,6 +71,7 @@ export class FleetRepository {
                case
                  when coalesce(a.act_alerts, 0) > 0 then 0
                  when coalesce(g.gateway_count, 0) = 0 or g.last_seen_at is null
+                   or coalesce(a.silent_alerts, 0) > 0
                    or g.last_seen_at < now() - make_interval(secs => greatest(${SILENT_AFTER_INTERVALS} * v.reporting_interval_s, ${SILENT_AFTER_MIN_S}))
                    then 1
                  when coalesce(a.open_alerts, 0) > 0 then 2
@@ -82,7 +83,10 @@ export class FleetRepository {
               from gateways where site_id = v.id and revoked_at is null
           ) g on true
           left join lateral (
-            select count(*) as open_alerts, count(*) filter (where severity = 'act') as act_alerts,
+            -- A gateway-silent alert means "no data": it ranks the site silent, not act.
+            select count(*) as open_alerts,
+                   count(*) filter (where severity = 'act' and kind <> 'gateway_silent') as act_alerts,
+                   count(*) filter (where kind = 'gateway_silent') as silent_alerts,
                    array_agg(distinct kind) as alert_kinds
               from alerts where site_id = v.id and status <> 'cleared'
           ) a on true

@@ -302,6 +302,19 @@ describe('site health', () => {
     expect(siteHealth({ openAlerts: [], lastReadingT: now - 3600, nowT: now })).toBe('silent');
     expect(siteHealth({ openAlerts: [], lastReadingT: null, nowT: now })).toBe('silent');
   });
+  it('a gateway-silent alert makes the site silent, even at act severity; another act alert wins', () => {
+    const silentAct = { kind: 'gateway_silent', severity: 'act' } as const;
+    expect(siteHealth({ openAlerts: [silentAct], lastReadingT: now - 60, nowT: now })).toBe(
+      'silent',
+    );
+    expect(
+      siteHealth({
+        openAlerts: [silentAct, { kind: 'dry_run', severity: 'act' }],
+        lastReadingT: now - 7200,
+        nowT: now,
+      }),
+    ).toBe('act');
+  });
   it('sorts worst first', () => {
     const sorted = (['steady', 'watch', 'silent', 'act'] as const).slice().sort(compareSiteHealth);
     expect(sorted).toEqual(['act', 'silent', 'watch', 'steady']);
