@@ -6,6 +6,7 @@
  */
 import { measurementName } from '../telemetry/measurements.js';
 import { waterDeliveredByRun } from '../pumps/water-delivered.js';
+import { tankVolumeFromLevel } from '../tanks/tank-volume.js';
 import type { Sample } from '../series.js';
 import type { RuleDecision, RuleInput, RulePumpConfig } from './types.js';
 import type { RuleParamsOverrides } from './defaults.js';
@@ -31,6 +32,11 @@ function pvShareOfRating(input: RuleInput, pump: RulePumpConfig, fromT: number):
   const meanV = volts.reduce((sum, s) => sum + s.v, 0) / volts.length;
   const meanA = amps.reduce((sum, s) => sum + s.v, 0) / amps.length;
   return (meanV * meanA) / array.ratedWatts;
+}
+
+/** The level at which the tank counts as full: the float_stuck rule's, so the two agree. */
+function fullFractionForNoRise(input: RuleInput): number {
+  return ruleParamsFor('float_stuck', input.site).fullFraction;
 }
 
 function evaluatePump(
@@ -84,7 +90,17 @@ function evaluatePump(
   let noRise = false;
   let delivered: number | null = null;
   let expectedMinimum: number | null = null;
-  if (lastLongRun && (tank || flows.length > 0)) {
+  // A tank that was already full cannot rise: water pumped into it overflows. That is the float
+  // switch's fault (float_stuck), not a dry well, so the tank-rise test does not judge such a run.
+  const fullDuringRun =
+    tank !== null &&
+    lastLongRun !== undefined &&
+    levels.some((s) => {
+      if (s.t < lastLongRun.startT || s.t > lastLongRun.endT) return false;
+      const r = tankVolumeFromLevel(tank, s.v);
+      return r.ok && r.fractionFull >= fullFractionForNoRise(input);
+    });
+  if (lastLongRun && (tank || flows.length > 0) && !fullDuringRun) {
     const d = waterDeliveredByRun(lastLongRun, { tank, levels, flows });
     delivered = d.cubicMetres;
     const ratedFlow = pump.ratedFlowCubicMetresPerSecond ?? null;

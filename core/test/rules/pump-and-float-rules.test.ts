@@ -118,6 +118,16 @@ describe('dry_run', () => {
     expect(d.summary).toMatch(/did not rise/);
   });
 
+  it('must NOT alert: a run at rated current into a tank already full (that is float_stuck)', () => {
+    const from = NOW - 3000;
+    const data = {
+      'pump/well/running': series(from, NOW, 60, (t) => t < NOW - 600),
+      'pump/well/current': series(from, NOW, 60, (t) => (t < NOW - 600 ? 7.6 : 0)),
+      'tank/cistern/level': series(from - 3600, NOW, 60, () => cisternLevelAt(site, 1.0)),
+    };
+    expect(decisionFor(evaluateDryRun(input(site, NOW, data)), 'well').action).toBe('none');
+  });
+
   it('must NOT alert: a normal run at rated current with the tank rising', () => {
     const from = NOW - 3000;
     const data = {
