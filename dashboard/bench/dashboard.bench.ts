@@ -106,9 +106,6 @@ async function chartTiming() {
     await page.getByLabel('Password').fill('demo-admin-pass');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('heading', { name: 'Sites' }).waitFor();
-    console.log(
-      `site: ${await page.locator('li[data-site-id]', { hasText: siteName }).count()} rows`,
-    );
     const siteId = await page
       .locator('li[data-site-id]', { hasText: siteName })
       .getAttribute('data-site-id');

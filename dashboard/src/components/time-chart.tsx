@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useRef, useState } from 'react';
+import { useLayoutEffect, useMemo, useRef, useState } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import UplotReact from 'uplot-react';
@@ -27,6 +27,8 @@ export interface TimeChartProps {
   t: number[];
   series: ChartSeries[];
   timeZone: string;
+  /** The time range asked for (ms): the x axis spans it even where there is no data yet. */
+  range?: { from: number; to: number };
   height?: number;
   /** Called with the selected range (ms) when someone drags across the chart. */
   onZoom?: (fromMs: number, toMs: number) => void;
@@ -34,9 +36,10 @@ export interface TimeChartProps {
   onDrawn?: () => void;
 }
 
+/** The box's width, measured before the browser paints (so the chart is built in that frame). */
 function useWidth(ref: React.RefObject<HTMLElement | null>): number {
   const [width, setWidth] = useState(0);
-  useEffect(() => {
+  useLayoutEffect(() => {
     const el = ref.current;
     if (!el) return;
     setWidth(el.clientWidth);
@@ -64,6 +67,10 @@ export function TimeChart(props: TimeChartProps) {
   const onDrawn = useRef(props.onDrawn);
   onDrawn.current = props.onDrawn;
 
+  // Read through a ref: a new range arrives with new data (setData rescales), so the chart
+  // is not rebuilt for it.
+  const range = useRef(props.range);
+  range.current = props.range;
   const options = useMemo<uPlot.Options | null>(() => {
     if (width === 0) return null;
     const axisStroke = paletteColour('ink-soft');
@@ -79,7 +86,7 @@ export function TimeChart(props: TimeChartProps) {
         grid,
         ticks: grid,
         font,
-        size: 56,
+        size: axisSize,
         values: (_u, splits) => splits.map((v) => `${formatTick(v)} ${leftUnit}`),
       },
     ];
@@ -90,7 +97,7 @@ export function TimeChart(props: TimeChartProps) {
         stroke: axisStroke,
         grid: { show: false },
         font,
-        size: 56,
+        size: axisSize,
         values: (_u, splits) => splits.map((v) => `${formatTick(v)} ${rightUnit}`),
       });
     }
@@ -101,7 +108,15 @@ export function TimeChart(props: TimeChartProps) {
       tzDate: (ts) => uPlot.tzDate(new Date(ts), props.timeZone),
       cursor: { drag: { x: true, y: false, setScale: false } },
       legend: { live: true },
-      scales: { x: { time: true }, y: { auto: true }, y2: { auto: true } },
+      scales: {
+        x: {
+          time: true,
+          range: (_u, min, max): uPlot.Range.MinMax =>
+            range.current ? [range.current.from, range.current.to] : [min, max],
+        },
+        y: { auto: true },
+        y2: { auto: true },
+      },
       axes,
       series: [
         { label: 'Time' },
@@ -150,7 +165,7 @@ export function TimeChart(props: TimeChartProps) {
       </figcaption>
       <div
         ref={box}
-        className="wk-chart w-full"
+        className="wk-chart w-full overflow-hidden"
         role="img"
         aria-label={`${props.title}. ${props.summary}`}
       >
@@ -158,6 +173,12 @@ export function TimeChart(props: TimeChartProps) {
       </div>
     </figure>
   );
+}
+
+/** Room for the widest tick label (11 px monospace: about 6.7 px a character), so "4,000 gal" is not clipped. */
+function axisSize(_u: uPlot, values: string[] | null): number {
+  const longest = values?.reduce((n, v) => Math.max(n, String(v).length), 0) ?? 0;
+  return Math.max(40, Math.ceil(longest * 6.7) + 22);
 }
 
 function formatTick(v: number): string {

@@ -1,6 +1,13 @@
 import { useEffect, useRef, useState } from 'react';
 import { apiUrl } from './api-client';
 
+/** `site-update` events as the API relays them: which site changed and what. */
+export interface SiteUpdate {
+  siteId: string;
+  what: ('readings' | 'pump_runs' | 'alerts' | 'gateway')[];
+  at: string;
+}
+
 export type StreamState = 'connecting' | 'open' | 'retrying' | 'off';
 
 /**

@@ -36,9 +36,11 @@ export function ThemeProvider(props: { children: ReactNode }) {
   }, []);
 
   const resolved = choice === 'system' ? (dark ? 'dark' : 'light') : choice;
-  useEffect(() => {
+  // Set during render, not in an effect: charts read the palette's CSS variables while they
+  // render, and must see the new theme's colours in the same pass.
+  if (typeof document !== 'undefined') {
     document.documentElement.classList.toggle('dark', resolved === 'dark');
-  }, [resolved]);
+  }
 
   const setChoice = (next: ThemeChoice) => {
     localStorage.setItem(STORAGE_KEY, next);

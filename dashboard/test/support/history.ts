@@ -138,6 +138,21 @@ async function rollUp(db: Database, siteId: string, from: Date, to: Date): Promi
        group by 1, 2, 3
       on conflict do nothing`.execute(db);
   }
+  // Six-hour buckets (UTC quarter-days) feed the longest charts; skipped on a schema without them.
+  const { rows } = await sql<{ present: boolean }>`
+    select to_regclass('six_hour_buckets') is not null as present`.execute(db);
+  if (!rows[0]?.present) return;
+  await sql`
+    insert into six_hour_buckets (site_id, channel_id, bucket_start, sample_count, sum, min, max,
+                                  first_value, first_time, last_value, last_time)
+    select site_id, channel_id, date_bin('6 hours', time, timestamptz '2000-01-01 00:00:00+00'),
+           count(*), sum(value), min(value), max(value),
+           (array_agg(value order by time))[1], min(time),
+           (array_agg(value order by time desc))[1], max(time)
+      from readings
+     where site_id = ${siteId} and time >= ${from} and time < ${to} and value is not null
+     group by 1, 2, 3
+    on conflict do nothing`.execute(db);
 }
 
 /**

@@ -68,6 +68,7 @@ export function SiteRoute() {
           daysLeft={f?.daysLeft ?? null}
           charge={f?.charge ?? null}
           chargePercent={entry?.battery?.stateOfChargePercent ?? null}
+          chargeBand={f?.chargeBand ?? null}
           lastSeenAt={entry?.lastSeenAt ?? null}
         />
         <section aria-labelledby="owner-alerts" className="space-y-2">

@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { request } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/query-keys';
 import type { Alert } from './get-alerts';
 
 /** POST /api/sites/:siteId/alerts/:alertId/acknowledge { note } */
@@ -19,9 +20,9 @@ export function useAcknowledgeAlert() {
   return useMutation({
     mutationFn: acknowledgeAlert,
     onSuccess: (_alert, input) => {
-      void queryClient.invalidateQueries({ queryKey: ['alerts'] });
-      void queryClient.invalidateQueries({ queryKey: ['sites', input.siteId, 'alerts'] });
-      void queryClient.invalidateQueries({ queryKey: ['fleet'] });
+      void queryClient.invalidateQueries({ queryKey: queryKeys.fleetAlerts });
+      void queryClient.invalidateQueries({ queryKey: queryKeys.siteAlerts(input.siteId) });
+      void queryClient.invalidateQueries({ queryKey: queryKeys.fleet });
     },
   });
 }

@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { AlertKind } from '@wellkept/core';
 import { request } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/query-keys';
 
 export type AlertStatusFilter = 'open' | 'acknowledged' | 'cleared' | 'active' | 'all';
 
@@ -38,8 +39,8 @@ export function getAlerts(filter: AlertsFilter): Promise<Alert[]> {
 export const alertsQueryOptions = (filter: AlertsFilter) =>
   queryOptions({
     queryKey: filter.siteId
-      ? (['sites', filter.siteId, 'alerts', filter.status, filter.kind ?? ''] as const)
-      : (['alerts', filter.status, filter.kind ?? ''] as const),
+      ? ([...queryKeys.siteAlerts(filter.siteId), filter.status, filter.kind ?? ''] as const)
+      : ([...queryKeys.fleetAlerts, filter.status, filter.kind ?? ''] as const),
     queryFn: () => getAlerts(filter),
   });
 

@@ -5,8 +5,29 @@ import { QueryState } from '../../../components/states';
 import { formErrors } from '../../../lib/form-errors';
 import { type AlertSetting, useAlertSettings, usePutAlertSetting } from '../api/alert-settings';
 
-/** "socFloorPercent" → "soc floor percent" */
-const words = (name: string) => name.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+/** Parameter names end in their unit (API values are SI); the label says it in words. */
+const UNIT_SUFFIXES: [RegExp, string][] = [
+  [/Seconds$/, 's'],
+  [/VoltsPerCell$/, 'V per cell'],
+  [/Fraction$/, 'share, 0–1'],
+  [/Percent$/, '%'],
+  [/Days$/, 'days'],
+];
+
+/** "holdSeconds" → "hold (s)", "floorFraction" → "floor (share, 0–1)". */
+export function thresholdLabel(name: string): string {
+  let unit = '';
+  let stem = name;
+  for (const [pattern, words] of UNIT_SUFFIXES) {
+    if (pattern.test(stem)) {
+      stem = stem.replace(pattern, '');
+      unit = words;
+      break;
+    }
+  }
+  const text = stem.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+  return unit ? `${text} (${unit})` : text;
+}
 
 /** Alert thresholds per site: on/off and each value, with the default beside it (admins edit). */
 export function ThresholdsPanel(props: { siteId: string; canEdit: boolean }) {
@@ -32,7 +53,7 @@ export function ThresholdsPanel(props: { siteId: string; canEdit: boolean }) {
   );
 }
 
-function ThresholdForm(props: { siteId: string; setting: AlertSetting; canEdit: boolean }) {
+export function ThresholdForm(props: { siteId: string; setting: AlertSetting; canEdit: boolean }) {
   const { setting } = props;
   const put = usePutAlertSetting(props.siteId);
   const [enabled, setEnabled] = useState(setting.enabled);
@@ -78,7 +99,7 @@ function ThresholdForm(props: { siteId: string; setting: AlertSetting; canEdit: 
             className="grid grid-cols-[1fr_7rem] items-center gap-2 text-label text-wk-ink"
           >
             <span>
-              {words(name)} <span className="text-wk-ink-faint">(default {def})</span>
+              {thresholdLabel(name)} <span className="text-wk-ink-faint">(default {def})</span>
               {(local[name] ?? server.fields[`params.${name}`]) && (
                 <span className="block font-medium text-wk-act">
                   {local[name] ?? server.fields[`params.${name}`]}

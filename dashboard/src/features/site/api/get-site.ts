@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { request } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/query-keys';
 
 /** GET /api/sites/:siteId */
 export interface Site {
@@ -21,7 +22,7 @@ export function getSite(siteId: string): Promise<Site> {
 }
 
 export const siteQueryOptions = (siteId: string) =>
-  queryOptions({ queryKey: ['sites', siteId] as const, queryFn: () => getSite(siteId) });
+  queryOptions({ queryKey: queryKeys.site(siteId), queryFn: () => getSite(siteId) });
 
 export function useSite(siteId: string) {
   return useQuery(siteQueryOptions(siteId));

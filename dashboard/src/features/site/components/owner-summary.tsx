@@ -22,6 +22,8 @@ export function OwnerSummary(props: {
   fullness: DisplayQuantity | null;
   daysLeft: DisplayQuantity | null;
   chargePercent: number | null;
+  /** "20–90 %" when the voltage only narrows the charge down to a band. */
+  chargeBand?: string | null;
   charge: DisplayQuantity | null;
   lastSeenAt: string | null;
 }) {
@@ -70,7 +72,14 @@ export function OwnerSummary(props: {
               <Figure quantity={props.charge} size="lg" label="Battery charge" />
             </p>
           ) : null}
-          <p className="text-wk-ink">{chargeWords(props.chargePercent)}</p>
+          {props.chargePercent === null && props.chargeBand ? (
+            <p className="text-wk-ink">
+              Somewhere between <span className="wk-figure">{props.chargeBand}</span>: the battery
+              voltage alone cannot say more just now.
+            </p>
+          ) : (
+            <p className="text-wk-ink">{chargeWords(props.chargePercent)}</p>
+          )}
         </div>
       </div>
       <SafetyCaution topics={['owner']} />

@@ -4,6 +4,7 @@ import {
   formatVolume,
   formatWatts,
   localDateString,
+  type UnitSystem,
 } from '@wellkept/core';
 import { Table, TableBody, TableCell, TableHead, TableHeaderCell, TableRow } from '@tremor/react';
 import { useMemo, useState } from 'react';
@@ -78,7 +79,7 @@ export function RunLog(props: { siteId: string; pumps: { id: string; name: strin
                   text={formatVolume(page.totals.waterM3, unitSystem).text}
                 />
               </dl>
-              <DayTotals runs={page.runs} timeZone={timeZone} />
+              <DayTotals runs={page.runs} timeZone={timeZone} unitSystem={unitSystem} />
               <div className="wk-card overflow-x-auto">
                 <Table>
                   <TableHead>
@@ -127,34 +128,66 @@ export function RunLog(props: { siteId: string; pumps: { id: string; name: strin
       </QueryState>
     </section>
   );
+}
 
-  function DayTotals(p: { runs: PumpRun[]; timeZone: string }) {
-    const days = new Map<string, { runs: number; seconds: number; water: number }>();
-    for (const r of p.runs) {
-      const day = localDateString(Date.parse(r.startedAt) / 1000, p.timeZone);
-      const d = days.get(day) ?? { runs: 0, seconds: 0, water: 0 };
-      d.runs += 1;
-      d.seconds += r.durationS ?? 0;
-      d.water += r.waterM3 ?? 0;
-      days.set(day, d);
-    }
-    return (
-      <details className="wk-card p-3">
-        <summary className="cursor-pointer font-medium">Totals per day (runs shown)</summary>
-        <ul className="mt-2 grid gap-1 sm:grid-cols-2">
-          {[...days].map(([day, d]) => (
-            <li key={day} className="flex justify-between gap-2 font-mono text-label">
-              <span>{day}</span>
-              <span>
-                {d.runs} runs · {formatDurationSeconds(d.seconds)} ·{' '}
-                {formatVolume(d.water, unitSystem).text}
-              </span>
-            </li>
-          ))}
-        </ul>
-      </details>
-    );
+/** Runs, run time, energy and water for each local day of the runs shown. */
+function DayTotals(p: { runs: PumpRun[]; timeZone: string; unitSystem: UnitSystem }) {
+  const days = new Map<
+    string,
+    { runs: number; seconds: number; energyWh: number; water: number }
+  >();
+  for (const r of p.runs) {
+    const day = localDateString(Date.parse(r.startedAt) / 1000, p.timeZone);
+    const d = days.get(day) ?? { runs: 0, seconds: 0, energyWh: 0, water: 0 };
+    d.runs += 1;
+    d.seconds += r.durationS ?? 0;
+    d.energyWh += r.energyWh ?? 0;
+    d.water += r.waterM3 ?? 0;
+    days.set(day, d);
   }
+  return (
+    <section className="wk-card p-3" aria-labelledby="day-totals">
+      <h3 id="day-totals" className="font-medium text-wk-ink-strong">
+        Totals per day
+      </h3>
+      <table className="mt-2 w-full text-label">
+        <thead className="text-left text-wk-ink-soft">
+          <tr>
+            <th scope="col" className="py-1 font-medium">
+              Day
+            </th>
+            <th scope="col" className="py-1 text-right font-medium">
+              Runs
+            </th>
+            <th scope="col" className="py-1 text-right font-medium">
+              Run time
+            </th>
+            <th scope="col" className="py-1 text-right font-medium">
+              Energy
+            </th>
+            <th scope="col" className="py-1 text-right font-medium">
+              Water
+            </th>
+          </tr>
+        </thead>
+        <tbody className="font-mono">
+          {[...days].map(([day, d]) => (
+            <tr key={day} className="border-t border-wk-line">
+              <th scope="row" className="py-1 text-left font-normal">
+                {day}
+              </th>
+              <td className="py-1 text-right">{d.runs}</td>
+              <td className="py-1 text-right">{formatDurationSeconds(d.seconds)}</td>
+              <td className="py-1 text-right">
+                {formatQuantity(d.energyWh, 'Wh', { fractionDigits: 0 }).text}
+              </td>
+              <td className="py-1 text-right">{formatVolume(d.water, p.unitSystem).text}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </section>
+  );
 }
 
 function Total(props: { label: string; text: string }) {

@@ -178,7 +178,7 @@ export function SiteCharts(props: {
         {fetching && ' · loading…'}
         {' · drag across a chart to zoom in'}
       </p>
-      {channels.isPending || (results.length > 0 && results.every((r) => r.isPending)) ? (
+      {channels.isPending || results.some((r) => r.isPending) ? (
         <Loading label="Loading charts…" rows={5} />
       ) : channels.error ? (
         <Failure
@@ -200,7 +200,7 @@ export function SiteCharts(props: {
         <div className="grid gap-4 lg:grid-cols-2">
           {charts.flatMap((c) =>
             c.specs.map((spec) => (
-              <div key={spec.id} className="wk-card p-3">
+              <div key={spec.id} className="wk-card min-w-0 p-3">
                 <TimeChart
                   title={spec.title}
                   summary={spec.summary}
@@ -208,6 +208,7 @@ export function SiteCharts(props: {
                   series={spec.series}
                   height={spec.height}
                   timeZone={timeZone}
+                  range={range}
                   onZoom={onZoom}
                   onDrawn={() => onDrawn(spec.id)}
                 />

@@ -1,13 +1,6 @@
 import { useQueryClient } from '@tanstack/react-query';
-import { useEventStream, type StreamState } from '../../../lib/event-stream';
-import { fleetQueryOptions } from './get-fleet';
-
-/** `site_updates` as the API relays them: which site changed and what. */
-export interface SiteUpdate {
-  siteId: string;
-  what: ('readings' | 'pump_runs' | 'alerts' | 'gateway')[];
-  at: string;
-}
+import { useEventStream, type SiteUpdate, type StreamState } from '../../../lib/event-stream';
+import { queryKeys } from '../../../lib/query-keys';
 
 /**
  * GET /api/events (server-sent events): every change to a visible site refetches the
@@ -18,7 +11,7 @@ export function useFleetLive(enabled = true): StreamState {
   return useEventStream<SiteUpdate>(
     enabled ? '/events' : null,
     () => {
-      void queryClient.invalidateQueries({ queryKey: fleetQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: queryKeys.fleet });
     },
     ['site-update'],
   );

@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { SiteHealth } from '@wellkept/core';
 import { request } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/query-keys';
 
 /** One site on GET /api/fleet (worst first). */
 export interface FleetSite {
@@ -42,7 +43,7 @@ export function getFleet(): Promise<FleetOverview> {
 }
 
 export const fleetQueryOptions = () =>
-  queryOptions({ queryKey: ['fleet'] as const, queryFn: getFleet, refetchInterval: 60_000 });
+  queryOptions({ queryKey: queryKeys.fleet, queryFn: getFleet, refetchInterval: 60_000 });
 
 export function useFleet() {
   return useQuery(fleetQueryOptions());

@@ -1,5 +1,7 @@
 import { useMemo } from 'react';
 import uPlot from 'uplot';
+// uPlot's own layout rules (stacked canvases); without them the chart is twice its height.
+import 'uplot/dist/uPlot.min.css';
 import UplotReact from 'uplot-react';
 import { paletteColour, useTheme } from '../../../lib/theme';
 
