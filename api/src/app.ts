@@ -8,7 +8,11 @@ import { FastifyAdapter, type NestFastifyApplication } from '@nestjs/platform-fa
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
 import { AppModule } from './app.module.js';
 import { AllExceptionsFilter } from './common/all-exceptions.filter.js';
+import { crossSiteGuard } from './common/cross-site-guard.js';
 import { type ApiConfig, readApiConfig } from './config/api-config.js';
+
+/** Content types of data answers (see the content-security-policy hook below). */
+const DATA_TYPES = /^(application\/json|text\/csv|text\/event-stream|text\/plain)/;
 
 export interface CreateAppOptions {
   /** Settings to use instead of (or over) the environment's. */
@@ -55,14 +59,40 @@ export async function createApp(options: CreateAppOptions = {}): Promise<NestFas
       void reply.header('server-timing', `app;dur=${reply.elapsedTime.toFixed(2)}`);
       return payload;
     });
+  // Changes must come from the dashboard, not from a page on another site (CSRF).
+  app.getHttpAdapter().getInstance().addHook('onRequest', crossSiteGuard(config.publicUrl));
   app.setGlobalPrefix('api');
   app.useGlobalFilters(new AllExceptionsFilter());
   app.enableShutdownHooks();
+  // The API reads JSON (and multipart for files). A form-encoded body is what a page on another
+  // site can send without the browser asking first, so it is refused rather than parsed.
+  app.useBodyParser('application/x-www-form-urlencoded', {}, (_request, _body, done) => {
+    done(
+      Object.assign(new Error('form-encoded bodies are not accepted'), {
+        statusCode: 415,
+        code: 'FST_ERR_CTP_INVALID_MEDIA_TYPE',
+      }),
+      undefined,
+    );
+  });
   await app.register(cookie);
   await app.register(helmet, {
     // The OpenAPI page loads its own inline script and styles.
     contentSecurityPolicy: false,
   });
+  // Data answers (JSON, CSV, event streams) are never pages: a browser tricked into rendering
+  // one may run nothing and frame nothing. (The OpenAPI page and downloaded photos and PDFs,
+  // which a browser shows with its own viewer, are left alone.)
+  app
+    .getHttpAdapter()
+    .getInstance()
+    .addHook('onSend', async (_request, reply, payload) => {
+      const type = String(reply.getHeader('content-type') ?? '');
+      if (DATA_TYPES.test(type) && !reply.hasHeader('content-security-policy')) {
+        void reply.header('content-security-policy', "default-src 'none'; frame-ancestors 'none'");
+      }
+      return payload;
+    });
   await app.register(multipart, {
     // Keep the client's full file name so a name with folders or ".." is refused, not trimmed.
     preservePath: true,

@@ -3,10 +3,16 @@ import { API_CONFIG, type ApiConfig } from '../config/api-config.js';
 import { ApiError } from '../common/api-error.js';
 import { SignInAttemptsRepository } from './sign-in-attempts.repository.js';
 
+/** The first failure's answer waits this long; each further one twice as long, up to the cap. */
+const FIRST_DELAY_MS = 100;
+const MAX_DELAY_MS = 2000;
+
 /**
  * Slows password guessing from `sign_in_attempts`: a few failures per account (since its last
- * success) and more per network address, inside a sliding window. The answer says which limit
- * was hit and when to try again, and never whether the account exists.
+ * success) and more per network address, inside a sliding window, then a pause (429). The
+ * answer says which limit was hit and when to try again, and never whether the account exists.
+ * Before the pause, each failed attempt is answered later than the one before (doubling from
+ * 100 ms up to 2 s), so even the allowed attempts cannot be fired in quick succession.
  */
 @Injectable()
 export class SignInLimiter {
@@ -29,8 +35,19 @@ export class SignInLimiter {
     }
   }
 
-  record(email: string, ip: string, succeeded: boolean): Promise<void> {
-    return this.attempts.record(email, ip, succeeded);
+  async record(email: string, ip: string, succeeded: boolean): Promise<void> {
+    await this.attempts.record(email, ip, succeeded);
+    if (succeeded) return;
+    const { perAccount, perAddress, windowSeconds } = this.config.signInLimits;
+    const [account, address] = await Promise.all([
+      this.attempts.recentAccountFailures(email, windowSeconds, perAccount),
+      this.attempts.recentAddressFailures(ip, windowSeconds, perAddress),
+    ]);
+    // An address is allowed more failures than an account (several people behind one router).
+    const ratio = Math.max(1, Math.floor(perAddress / perAccount));
+    const failures = Math.max(account.length, Math.ceil(address.length / ratio));
+    const delay = Math.min(MAX_DELAY_MS, FIRST_DELAY_MS * 2 ** Math.max(0, failures - 1));
+    await new Promise((resolve) => setTimeout(resolve, delay));
   }
 }
 

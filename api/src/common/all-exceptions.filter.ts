@@ -36,7 +36,17 @@ const PG_ERRORS: Record<string, [number, string, string]> = {
   '22P02': [400, 'bad_request', 'A value has the wrong format'],
   '22007': [400, 'bad_request', 'A date or time has the wrong format'],
   '22008': [400, 'bad_request', 'A date or time is out of range'],
+  // Text PostgreSQL cannot hold: the NUL character, or one outside the database's encoding.
+  '22021': [400, 'bad_request', 'A text contains a character that cannot be stored (such as NUL)'],
+  '22P05': [400, 'bad_request', 'A text contains a character that cannot be stored (such as NUL)'],
+  '22001': [400, 'bad_request', 'A text is longer than this field allows'],
+  '22003': [400, 'bad_request', 'A number is out of range'],
+  '54000': [400, 'bad_request', 'A value is too large to store'],
 };
+
+/** Errors of the multipart parser (busboy) for a body that breaks off or is garbled. */
+const MALFORMED_MULTIPART =
+  /^(Unexpected end of (form|multipart data)|Malformed part header|Multipart: Boundary not found|Part terminated early)/;
 
 /** Connection-level failures (database down or restarting): a 503 the client may retry. */
 const UNAVAILABLE = new Set([
@@ -104,6 +114,13 @@ export class AllExceptionsFilter implements ExceptionFilter {
         503,
         'unavailable',
         'The service cannot reach its database right now; try again shortly',
+      );
+    }
+    if (typeof err?.message === 'string' && MALFORMED_MULTIPART.test(err.message)) {
+      return this.body(
+        400,
+        'bad_request',
+        'The multipart/form-data body is malformed or cut short',
       );
     }
     // Fastify's own errors (body too large, bad JSON, multipart limits) carry a 4xx statusCode.

@@ -195,6 +195,13 @@ export function parseRows(
   const seenTimes = new Set<number>();
   for (const row of table.rows) {
     const problems: RowProblem[] = [];
+    // A row with more or fewer cells than the header cannot be matched to its columns safely.
+    if (row.cells.length !== table.columns.length)
+      problems.push({
+        line: row.line,
+        column: null,
+        message: `the line has ${row.cells.length} cells; the header has ${table.columns.length}`,
+      });
     const t = parseTime(row.cells[resolved.time] ?? '', format, timeZone);
     if (typeof t === 'string') problems.push({ line: row.line, column: timeColumn, message: t });
     else if (t > now + 300)

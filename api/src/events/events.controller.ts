@@ -1,6 +1,6 @@
 import { Controller, type MessageEvent, Sse } from '@nestjs/common';
 import { ApiTags } from '@nestjs/swagger';
-import { concatMap, filter, interval, map, merge, type Observable } from 'rxjs';
+import { concatMap, filter, interval, map, merge, type Observable, takeUntil } from 'rxjs';
 import {
   ANY_ROLE,
   Allow,
@@ -68,6 +68,6 @@ export class EventsController {
     return merge(
       updates.pipe(map((u): MessageEvent => ({ type: 'site-update', data: u }))),
       interval(PING_MS).pipe(map((): MessageEvent => ({ type: 'ping', data: '' }))),
-    );
+    ).pipe(takeUntil(this.listener.closing));
   }
 }

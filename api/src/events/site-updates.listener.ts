@@ -1,4 +1,5 @@
 import {
+  type BeforeApplicationShutdown,
   Inject,
   Injectable,
   Logger,
@@ -25,9 +26,13 @@ export type SiteUpdate = z.infer<typeof siteUpdate>;
  * simply hear nothing until it is back.
  */
 @Injectable()
-export class SiteUpdatesListener implements OnModuleInit, OnApplicationShutdown {
+export class SiteUpdatesListener
+  implements OnModuleInit, BeforeApplicationShutdown, OnApplicationShutdown
+{
   private readonly logger = new Logger('site-updates');
   readonly updates = new Subject<SiteUpdate>();
+  /** Emits once when the API starts shutting down: open event streams end then. */
+  readonly closing = new Subject<void>();
   private client: pg.Client | undefined;
   private retryTimer: NodeJS.Timeout | undefined;
   private retryDelayMs = 500;
@@ -81,7 +86,20 @@ export class SiteUpdatesListener implements OnModuleInit, OnApplicationShutdown 
       void this.connect();
     }, this.retryDelayMs);
     this.retryTimer.unref();
-    this.retryDelayMs = Math.min(this.retryDelayMs * 2, 30_000);
+    // Capped at 5 s: live updates stop while this connection is away, and a LISTEN
+    // connection is cheap to retry.
+    this.retryDelayMs = Math.min(this.retryDelayMs * 2, 5_000);
+  }
+
+  /**
+   * Ends every open event stream before the HTTP server closes: the server waits for open
+   * responses, and an event stream never ends by itself, so without this a SIGTERM left the API
+   * running until it was killed (found by the fault runs, issue 9). Browsers reconnect to the
+   * next API process on their own (EventSource).
+   */
+  beforeApplicationShutdown(): void {
+    this.closing.next();
+    this.closing.complete();
   }
 
   async onApplicationShutdown(): Promise<void> {
