@@ -7,7 +7,10 @@ import { spawnSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { repoRoot } from '@wellkept/db';
+import { ensureSystemPackages } from './system-packages.js';
 
+// The two-node ingest benchmark runs project-local Redis and HAProxy.
+ensureSystemPackages(['redis-server', 'haproxy']);
 const workspaces = ['core', 'db', 'ingest', 'api', 'simulator', 'dashboard'];
 const wanted = process.argv.slice(2);
 let failed = 0;

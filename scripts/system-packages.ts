@@ -6,6 +6,10 @@ import { ensurePostgresInstalled } from '@wellkept/db';
 const packages = {
   chromium: '/usr/bin/chromium',
   'mosquitto-clients': '/usr/bin/mosquitto_pub',
+  // Shared broker state and the TCP balancer of the two-node ingest tests and benchmark; the
+  // tests start their own instances on free loopback ports, never the system services.
+  'redis-server': '/usr/bin/redis-server',
+  haproxy: '/usr/sbin/haproxy',
 } as const;
 
 export type SystemPackage = keyof typeof packages;

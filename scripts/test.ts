@@ -52,7 +52,7 @@ function sweepTestClusters(): void {
   }
 }
 
-ensureSystemPackages(['chromium', 'mosquitto-clients']);
+ensureSystemPackages(['chromium', 'mosquitto-clients', 'redis-server', 'haproxy']);
 sweepTestClusters();
 let status = step('type-check and build (tsc -b)', 'npx', ['tsc', '-b']);
 if (status === 0) {

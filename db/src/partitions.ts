@@ -17,9 +17,18 @@ export async function ensureTimePartitions(
   to: Date,
 ): Promise<number> {
   const step = partitionedTables[table];
-  const { rows } = await sql<{ created: number }>`
-    select ensure_time_partitions(${table}, ${step}::interval, ${from}, ${to}) as created`.execute(
-    db,
-  );
-  return rows[0]?.created ?? 0;
+  // CREATE TABLE IF NOT EXISTS is not atomic: two ingest nodes starting together would both
+  // create the same partition and one would fail with "already exists". One lock serialises
+  // the creators; it is held for the few milliseconds the (usually empty) check takes.
+  const create = async (trx: typeof db) => {
+    await sql`select pg_advisory_xact_lock(hashtextextended('wellkept:time-partitions', 0))`.execute(
+      trx,
+    );
+    const { rows } = await sql<{ created: number }>`
+      select ensure_time_partitions(${table}, ${step}::interval, ${from}, ${to}) as created`.execute(
+      trx,
+    );
+    return rows[0]?.created ?? 0;
+  };
+  return db.isTransaction ? create(db) : db.transaction().execute(create);
 }

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { createServer as createHttpServer, type Server as HttpServer } from 'node:http';
 import { createServer as createHttpsServer } from 'node:https';
 import {
@@ -30,6 +31,11 @@ import {
 import { ConnectionGate } from './connection-gate.js';
 import { ConnectRefusal, GatewayAuthenticator } from './gateway-authenticator.service.js';
 import { guardPacketSize } from './packet-size-guard.js';
+import {
+  createSharedBrokerState,
+  settleWithin,
+  type SharedBrokerState,
+} from './shared-broker-state.js';
 import { maySubscribe, publishableKind, rejectsTopic } from './topics.js';
 
 /** Set in preConnect when the CONNECT carried an empty client id (aedes then invents one). */
@@ -59,6 +65,10 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
   private readonly openSockets = new Set<Duplex>();
   private readonly gate: ConnectionGate;
   private listening = false;
+  /** Redis-backed broker state when several ingest nodes share it (INGEST_BROKER_MODE=shared). */
+  private shared: SharedBrokerState | undefined;
+  /** Connections closed because the same gateway connected to another node. */
+  private readonly replacedElsewhere = new WeakSet<Client>();
 
   constructor(
     private readonly authenticator: GatewayAuthenticator,
@@ -89,7 +99,18 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
   }
 
   async onApplicationBootstrap(): Promise<void> {
+    const id = `ingest-${randomUUID()}`;
+    if (this.config.broker.mode === 'shared') {
+      this.shared = createSharedBrokerState(this.config.broker.redisUrl, this.logger);
+      // Before createBroker, so this runs before aedes closes the older connection (see there).
+      this.shared.onConnectElsewhere(id, (clientId) => {
+        const local = this.broker && localClients(this.broker)[clientId];
+        if (local) this.replacedElsewhere.add(local);
+      });
+    }
     const broker = await Aedes.createBroker({
+      id,
+      ...(this.shared ? { mq: this.shared.mq, persistence: this.shared.persistence } : {}),
       // Gateways reconnect on their own; a socket that never drains is cut after 30 s.
       drainTimeout: 30_000,
       preConnect: (client, packet, done) => {
@@ -99,7 +120,7 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
       authenticate: (client, username, password, done) => {
         this.authenticate(client as TaggedClient, username, password, done);
       },
-      authorizePublish: (client, packet, done) => this.authorizePublish(client, packet, done),
+      authorizePublish: (client, packet, done) => this.throttlePublish(client, packet, done),
       authorizeSubscribe: (client, subscription, done) => {
         const session = this.sessions.get(client);
         if (!session || !maySubscribe(session.gatewayId, subscription.topic)) {
@@ -123,10 +144,16 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
       this.metrics.connectedGateways.set(broker.connectedClients);
       const session = this.sessions.get(client);
       // A gateway that reconnected elsewhere (replacing this connection) is still online.
-      const current = (broker as unknown as { clients: Record<string, Client> }).clients[client.id];
-      if (session && (!current || current === client)) {
+      const current = localClients(broker)[client.id];
+      const replaced = (current && current !== client) || this.replacedElsewhere.has(client);
+      if (session && !replaced) {
         this.presence.setOnline(session.gatewayId, session.siteId, false);
       }
+    });
+    // Shared mode: a Redis failure while queueing a message for a session surfaces here.
+    // (aedes emits it but its typings do not list it.)
+    (broker as unknown as NodeJS.EventEmitter).on('error', (error: Error) => {
+      this.logger.warn({ err: error.message }, 'broker error');
     });
     broker.on('clientError', (client, error) => {
       this.logger.debug({ gatewayId: client.id, err: error.message }, 'client error');
@@ -193,7 +220,12 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
     this.listening = false;
     const closed = Promise.all([closeServer(this.mqttServer), closeServer(this.wsHttpServer)]);
     await this.writer.flush();
-    await new Promise<void>((resolve) => (this.broker ? this.broker.close(resolve) : resolve()));
+    const brokerClosed = new Promise<void>((resolve) =>
+      this.broker ? this.broker.close(resolve) : resolve(),
+    );
+    // In shared mode closing waits on Redis (sessions, wills); do not hang on a lost Redis.
+    await (this.shared ? settleWithin(brokerClosed, 5000) : brokerClosed);
+    await this.shared?.close();
     for (const socket of this.openSockets) socket.destroy();
     this.wsServer?.close();
     await closed;
@@ -239,6 +271,31 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
     );
   }
 
+  /**
+   * Holds a publish while its gateway is over the publish rate (GatewayRateLimiter): aedes
+   * reads nothing more from that socket meanwhile, so a flooding gateway slows down on its own
+   * and others are not starved. Holds keep arrival order; a backlog longer than the limit's
+   * maximum hold closes the connection without a PUBACK (the gateway re-sends later).
+   */
+  private throttlePublish(
+    client: Client | null,
+    packet: PublishPacket,
+    done: (error?: Error | null) => void,
+  ): void {
+    const gatewayId = client ? this.sessions.get(client)?.gatewayId : undefined;
+    const hold = gatewayId ? this.authenticator.limits.reservePublish(gatewayId) : 0;
+    if (hold === 0) {
+      this.authorizePublish(client, packet, done);
+      return;
+    }
+    this.authenticator.noteThrottled('publish', gatewayId!, { holdMs: hold });
+    if (hold === null) {
+      done(new Error('publishing faster than the gateway publish limit allows'));
+      return;
+    }
+    setTimeout(() => this.authorizePublish(client, packet, done), hold);
+  }
+
   private authorizePublish(
     client: Client | null,
     packet: PublishPacket,
@@ -260,6 +317,20 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
       return;
     }
     if (kind === 'status') {
+      if (this.replacedElsewhere.has(client)) {
+        // The will of a connection replaced from another node: the gateway is online there.
+        done(new Error('connection replaced on another ingest node'));
+        return;
+      }
+      const willOf = (packet as PublishPacket & { brokerId?: string }).brokerId;
+      if (willOf && willOf !== this.broker?.id) {
+        // A will left by an ingest node that died, published late by this node while the
+        // gateway is already connected here again: deliver it, but keep the retained status
+        // and the recorded state (online).
+        packet.retain = false;
+        done(null);
+        return;
+      }
       const state = packet.payload.toString('utf8').trim();
       if (state === 'online' || state === 'offline') {
         this.presence.setOnline(session.gatewayId, session.siteId, state === 'online');
@@ -304,6 +375,11 @@ export class BrokerService implements OnApplicationBootstrap, BeforeApplicationS
       },
     );
   }
+}
+
+/** aedes's map of the connections this node holds, by client id (not in its typings). */
+function localClients(broker: Aedes): Record<string, Client | undefined> {
+  return (broker as unknown as { clients: Record<string, Client | undefined> }).clients;
 }
 
 function listen(server: Server | HttpServer, port: number, host: string): Promise<void> {

@@ -1,6 +1,10 @@
 import { readFileSync } from 'node:fs';
 import { readDatabaseConfig } from '@wellkept/db';
 import { z } from 'zod';
+import {
+  DEFAULT_GATEWAY_RATE_LIMITS,
+  type GatewayRateLimitSettings,
+} from '../broker/gateway-rate-limits.js';
 
 const port = z.coerce.number().int().min(0).max(65535);
 const positiveInt = z.coerce.number().int().positive();
@@ -38,6 +42,34 @@ const ingestEnv = z
     /** How often gateway last-seen times and channel last values are written, milliseconds. */
     INGEST_LAST_SEEN_INTERVAL_MS: z.coerce.number().int().min(100).max(600_000).default(5_000),
     INGEST_DB_POOL_SIZE: z.coerce.number().int().min(2).max(100).default(6),
+    /** Per-gateway limits (see gateway-rate-limits.ts for what each means). */
+    MQTT_GATEWAY_CONNECT_BURST: positiveInt.default(DEFAULT_GATEWAY_RATE_LIMITS.connectBurst),
+    MQTT_GATEWAY_CONNECTS_PER_MINUTE: z.coerce
+      .number()
+      .positive()
+      .default(DEFAULT_GATEWAY_RATE_LIMITS.connectsPerMinute),
+    MQTT_GATEWAY_PUBLISH_BURST: positiveInt.default(DEFAULT_GATEWAY_RATE_LIMITS.publishBurst),
+    MQTT_GATEWAY_PUBLISHES_PER_SECOND: z.coerce
+      .number()
+      .positive()
+      .default(DEFAULT_GATEWAY_RATE_LIMITS.publishesPerSecond),
+    MQTT_GATEWAY_MAX_PUBLISH_DELAY_MS: z.coerce
+      .number()
+      .int()
+      .min(0)
+      .max(600_000)
+      .default(DEFAULT_GATEWAY_RATE_LIMITS.maxPublishDelayMs),
+    /**
+     * `single` (default): the broker keeps sessions, retained messages and subscriptions in this
+     * process. `shared`: several ingest nodes behind a TCP balancer share them through Redis
+     * (docs/running-at-scale.md).
+     */
+    INGEST_BROKER_MODE: z.enum(['single', 'shared']).default('single'),
+    /** Redis for the shared mode, e.g. redis://127.0.0.1:6379/0 (a password goes in the URL). */
+    REDIS_URL: z
+      .string()
+      .regex(/^rediss?:\/\/[^\s]+$/, 'must be a redis:// or rediss:// URL')
+      .optional(),
     LOG_LEVEL: z
       .enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'])
       .default('info'),
@@ -45,6 +77,10 @@ const ingestEnv = z
   .refine((e) => Boolean(e.MQTT_TLS_CERT_FILE) === Boolean(e.MQTT_TLS_KEY_FILE), {
     message: 'set both MQTT_TLS_CERT_FILE and MQTT_TLS_KEY_FILE, or neither',
     path: ['MQTT_TLS_CERT_FILE'],
+  })
+  .refine((e) => e.INGEST_BROKER_MODE === 'single' || Boolean(e.REDIS_URL), {
+    message: 'INGEST_BROKER_MODE=shared needs REDIS_URL (the Redis that the ingest nodes share)',
+    path: ['REDIS_URL'],
   })
   .refine((e) => e.INGEST_QUEUE_MAX_RECORDS >= e.INGEST_BATCH_MAX_RECORDS, {
     message: 'INGEST_QUEUE_MAX_RECORDS must be at least INGEST_BATCH_MAX_RECORDS',
@@ -70,7 +106,11 @@ export interface IngestConfig {
   rollupIntervalMs: number;
   lastSeenIntervalMs: number;
   dbPoolSize: number;
+  /** Where broker state lives: this process only, or Redis shared by several ingest nodes. */
+  broker: { mode: 'single' } | { mode: 'shared'; redisUrl: string };
   logLevel: string;
+  /** Per-gateway connect and publish limits; defaults when absent. */
+  gatewayLimits?: Partial<GatewayRateLimitSettings>;
 }
 
 /**
@@ -109,7 +149,18 @@ export function readIngestConfig(env: NodeJS.ProcessEnv = process.env): IngestCo
     rollupIntervalMs: e.INGEST_ROLLUP_INTERVAL_MS,
     lastSeenIntervalMs: e.INGEST_LAST_SEEN_INTERVAL_MS,
     dbPoolSize: e.INGEST_DB_POOL_SIZE,
+    broker:
+      e.INGEST_BROKER_MODE === 'shared'
+        ? { mode: 'shared', redisUrl: e.REDIS_URL! }
+        : { mode: 'single' },
     logLevel: e.LOG_LEVEL,
+    gatewayLimits: {
+      connectBurst: e.MQTT_GATEWAY_CONNECT_BURST,
+      connectsPerMinute: e.MQTT_GATEWAY_CONNECTS_PER_MINUTE,
+      publishBurst: e.MQTT_GATEWAY_PUBLISH_BURST,
+      publishesPerSecond: e.MQTT_GATEWAY_PUBLISHES_PER_SECOND,
+      maxPublishDelayMs: e.MQTT_GATEWAY_MAX_PUBLISH_DELAY_MS,
+    },
   };
 }
 
