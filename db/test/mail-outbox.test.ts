@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { enqueueMail, OutboxSender, retryDelaySeconds } from '../src/index.js';
+import { enqueueMail, OutboxSender, outboxMessageId, retryDelaySeconds } from '../src/index.js';
 import { type MailCatcher, startMailCatcher, useTestDatabase } from '../src/testing.js';
 
 const t = useTestDatabase('db_outbox');
@@ -85,6 +85,29 @@ describe('e-mail outbox', () => {
     expect(await good.sendDue()).toEqual({ sent: 1, failed: 0 });
     await good.stop();
     await mail.waitFor((m) => m.subject === 'Subject retry-1');
+  });
+
+  it('gives a message the same Message-ID on every attempt, so a repeat can be recognised', async () => {
+    await mail.clear();
+    await t.db.deleteFrom('email_outbox').execute();
+    const { id } = await enqueueMail(t.db, message('stable-id-1'));
+    const sender = new OutboxSender(t.db, mail.smtp, { log: () => {} });
+    expect(await sender.sendDue()).toEqual({ sent: 1, failed: 0 });
+    // The answer to the first attempt was lost (the process died before marking it sent).
+    await t.db
+      .updateTable('email_outbox')
+      .set({ sent_at: null, next_attempt_at: new Date() })
+      .where('id', '=', id)
+      .execute();
+    expect(await sender.sendDue()).toEqual({ sent: 1, failed: 0 });
+    await sender.stop();
+    const res = await fetch(`http://127.0.0.1:${mail.webPort}/api/email`);
+    const caught = (await res.json()) as { headers: Record<string, string> }[];
+    expect(caught.map((m) => m.headers['message-id'])).toEqual([
+      `<outbox-${id}@wellkept.example>`,
+      `<outbox-${id}@wellkept.example>`,
+    ]);
+    expect(outboxMessageId(7, 'Wellkept <alerts@watch.example>')).toBe('<outbox-7@watch.example>');
   });
 
   it('holds a message until its hold time (quiet hours)', async () => {

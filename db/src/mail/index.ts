@@ -10,6 +10,7 @@ export {
 export {
   OutboxSender,
   retryDelaySeconds,
+  outboxMessageId,
   type SmtpSettings,
   type OutboxSenderOptions,
 } from './outbox-sender.js';

@@ -28,6 +28,12 @@ export interface OutboxSenderOptions {
   retryDelay?: (attempts: number) => number;
 }
 
+/** The Message-ID of an outbox row: `<outbox-<id>@<domain of the From address>>`. */
+export function outboxMessageId(id: number, from: string): string {
+  const domain = /@([A-Za-z0-9.-]+)>?\s*$/.exec(from)?.[1] ?? 'wellkept.invalid';
+  return `<outbox-${id}@${domain}>`;
+}
+
 /** Seconds to wait after the n-th failed attempt: 30 s doubling, at most one hour. */
 export function retryDelaySeconds(attempts: number): number {
   return Math.min(30 * 2 ** Math.max(0, attempts - 1), 3600);
@@ -88,6 +94,10 @@ export class OutboxSender {
       for (const mail of batch) {
         try {
           const info = await this.transporter.sendMail({
+            // One Message-ID per outbox row, the same on every attempt: a retry after a send
+            // whose answer was lost (SMTP or process died between DATA and markMailSent)
+            // carries the same id, so mail systems and the fault runs can tell it is a repeat.
+            messageId: outboxMessageId(mail.id, this.smtp.from),
             from: this.smtp.from,
             to: mail.to,
             subject: mail.subject,

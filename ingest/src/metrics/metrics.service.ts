@@ -78,6 +78,13 @@ export class MetricsService {
     registers: [this.registry],
   });
 
+  readonly throttled = new Counter({
+    name: 'wellkept_ingest_throttled_total',
+    help: 'Gateway connections refused and publishes held back by the per-gateway rate limits.',
+    labelNames: ['kind'] as const,
+    registers: [this.registry],
+  });
+
   readonly rollupSeconds = new Histogram({
     name: 'wellkept_ingest_rollup_seconds',
     help: 'Time of one bucket and pump-run sweep.',

@@ -23,6 +23,9 @@ const mailEnv = z
     /** Attempts before a message is left for a person; with the backoff capped at an hour, 48
      *  attempts ride out about two days of SMTP outage. */
     MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(1000).default(48),
+    /** Wait before the first retry of a failed send, seconds; it doubles per attempt, capped at
+     *  an hour. Shorter values suit tests and fault runs. */
+    MAIL_RETRY_FIRST_S: z.coerce.number().min(0.1).max(3600).default(30),
   })
   .refine((e) => !e.SMTP_PASSWORD || Boolean(e.SMTP_USER), {
     message: 'SMTP_PASSWORD is set but SMTP_USER is not',
@@ -63,6 +66,7 @@ export function readMailConfig(env: NodeJS.ProcessEnv = process.env): MailConfig
     publicUrl: e.PUBLIC_URL.replace(/\/+$/, ''),
     sendIntervalSeconds: e.MAIL_SEND_INTERVAL_S,
     maxAttempts: e.MAIL_MAX_ATTEMPTS,
+    retryDelay: (attempts) => Math.min(e.MAIL_RETRY_FIRST_S * 2 ** Math.max(0, attempts - 1), 3600),
   };
 }
 

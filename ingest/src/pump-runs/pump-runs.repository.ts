@@ -30,9 +30,9 @@ export class PumpRunsRepository {
     return this.db;
   }
 
-  async pumpsAt(siteIds: readonly string[]): Promise<PumpForRuns[]> {
+  async pumpsAt(siteIds: readonly string[], db: Kysely<DB> = this.db): Promise<PumpForRuns[]> {
     if (siteIds.length === 0) return [];
-    const rows = await this.db
+    const rows = await db
       .selectFrom('pumps as p')
       .leftJoin('tanks as t', (j) =>
         j.onRef('t.id', '=', 'p.fills_tank_id').on('t.kind', '=', 'storage'),
@@ -76,6 +76,7 @@ export class PumpRunsRepository {
   async overlappingRunStarts(
     pumps: readonly { pumpId: string; from: Date }[],
     gapSeconds: number,
+    db: Kysely<DB> = this.db,
   ): Promise<Map<string, Date>> {
     if (pumps.length === 0) return new Map();
     const { rows } = await sql<{ pump_id: string; started_at: Date }>`
@@ -84,13 +85,14 @@ export class PumpRunsRepository {
                   ${pumps.map((p) => p.from.toISOString())}::timestamptz[]) as q(pump_id, from_t)
       join pump_runs r on r.pump_id = q.pump_id and r.started_at < q.from_t
         and (r.ended_at is null or r.ended_at >= q.from_t - ${gapSeconds} * interval '1 second')
-      group by q.pump_id`.execute(this.db);
+      group by q.pump_id`.execute(db);
     return new Map(rows.map((r) => [r.pump_id, r.started_at]));
   }
 
   /** Samples of named channels from a time on, by `site\0name`, sorted by time. */
   async samples(
     wanted: readonly { siteId: string; name: string; from: Date }[],
+    db: Kysely<DB> = this.db,
   ): Promise<Map<string, TimedValue[]>> {
     const out = new Map<string, TimedValue[]>();
     if (wanted.length === 0) return out;
@@ -101,7 +103,7 @@ export class PumpRunsRepository {
       join channels c on c.site_id = q.site_id and c.name = q.name
       join readings r on r.site_id = c.site_id and r.channel_id = c.id and r.time >= q.from_t
       where r.value is not null
-      order by c.site_id, c.name, r.time`.execute(this.db);
+      order by c.site_id, c.name, r.time`.execute(db);
     for (const r of rows) {
       const key = `${r.site_id}\u0000${r.name}`;
       let list = out.get(key);

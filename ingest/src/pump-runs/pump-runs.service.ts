@@ -1,6 +1,7 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { tankVolumeFromLevel, type TankConfig, type TankGeometry } from '@wellkept/core';
 import type { Logger } from 'pino';
+import type { Database } from '../database/database.js';
 import { LOGGER } from '../logging/logger.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { SWITCH_MAX_GAP_SECONDS } from '../storage/rollup-timing.js';
@@ -23,11 +24,35 @@ export class PumpRunsService {
 
   /** Re-derives runs of every pump at the given sites from the given times. Returns sites done. */
   async rederive(fromBySite: ReadonlyMap<string, Date>): Promise<number> {
-    const pumps = await this.repository.pumpsAt([...fromBySite.keys()]);
-    if (pumps.length === 0) return 0;
+    const { sites, updates } = await this.repository.database
+      .transaction()
+      .execute((trx) => this.rederiveIn(trx, fromBySite));
+    // In-process events only once the transaction has committed.
+    this.siteUpdates.emit(updates);
+    return sites;
+  }
+
+  /** Announces re-derived runs in-process (after the transaction that wrote them committed). */
+  emit(updates: readonly SiteUpdatedEvent[]): void {
+    this.siteUpdates.emit(updates);
+  }
+
+  /**
+   * The same inside the caller's transaction, so the runs are replaced in the commit that
+   * consumes what asked for them (the roll-up's late-minute marks and watermark): a crash in
+   * between can no longer lose the re-derivation (found by the fault runs, issue 9). The caller
+   * emits `updates` after its commit.
+   */
+  async rederiveIn(
+    trx: Database,
+    fromBySite: ReadonlyMap<string, Date>,
+  ): Promise<{ sites: number; updates: SiteUpdatedEvent[] }> {
+    const pumps = await this.repository.pumpsAt([...fromBySite.keys()], trx);
+    if (pumps.length === 0) return { sites: 0, updates: [] };
     const overlapping = await this.repository.overlappingRunStarts(
       pumps.map((p) => ({ pumpId: p.id, from: fromBySite.get(p.siteId)! })),
       SWITCH_MAX_GAP_SECONDS,
+      trx,
     );
     const startOf = (p: PumpForRuns): Date => {
       const from = fromBySite.get(p.siteId)!;
@@ -46,40 +71,35 @@ export class PumpRunsService {
       if (p.tank) names.push(`tank/${p.tank.key}/level`);
       return names.map((name) => ({ siteId: p.siteId, name, from }));
     });
-    const samples = await this.repository.samples(wanted);
+    const samples = await this.repository.samples(wanted, trx);
     const series = (siteId: string, name: string) => samples.get(`${siteId}\u0000${name}`) ?? [];
 
     const changedSites = new Set<string>();
-    const updates = await this.repository.database.transaction().execute(async (trx) => {
-      for (const pump of pumps) {
-        const start = startOf(pump);
-        const runs = derivePumpRuns({
-          running: series(pump.siteId, `pump/${pump.key}/running`),
-          current: series(pump.siteId, `pump/${pump.key}/current`),
-          flow: series(pump.siteId, `pump/${pump.key}/flow`),
-          batteryVoltage: series(pump.siteId, 'battery/voltage'),
-          tankVolume: pump.tank
-            ? tankVolumes(pump.tank, series(pump.siteId, `tank/${pump.tank.key}/level`))
-            : [],
-          ratedCurrentA: pump.ratedCurrentA,
-          maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
-        }).filter((r) => r.startedAt * 1000 >= start.getTime());
-        await this.repository.replaceRuns(trx, pump, start, runs);
-        changedSites.add(pump.siteId);
-      }
-      const at = new Date().toISOString();
-      const updates: SiteUpdatedEvent[] = [...changedSites].map((siteId) => ({
-        siteId,
-        what: ['pump_runs'],
-        at,
-      }));
-      await this.siteUpdates.notifyInTransaction(trx, updates);
-      return updates;
-    });
-    // In-process events only once the transaction has committed.
-    this.siteUpdates.emit(updates);
+    for (const pump of pumps) {
+      const start = startOf(pump);
+      const runs = derivePumpRuns({
+        running: series(pump.siteId, `pump/${pump.key}/running`),
+        current: series(pump.siteId, `pump/${pump.key}/current`),
+        flow: series(pump.siteId, `pump/${pump.key}/flow`),
+        batteryVoltage: series(pump.siteId, 'battery/voltage'),
+        tankVolume: pump.tank
+          ? tankVolumes(pump.tank, series(pump.siteId, `tank/${pump.tank.key}/level`))
+          : [],
+        ratedCurrentA: pump.ratedCurrentA,
+        maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
+      }).filter((r) => r.startedAt * 1000 >= start.getTime());
+      await this.repository.replaceRuns(trx, pump, start, runs);
+      changedSites.add(pump.siteId);
+    }
+    const at = new Date().toISOString();
+    const updates: SiteUpdatedEvent[] = [...changedSites].map((siteId) => ({
+      siteId,
+      what: ['pump_runs'],
+      at,
+    }));
+    await this.siteUpdates.notifyInTransaction(trx, updates);
     this.logger.debug({ sites: changedSites.size, pumps: pumps.length }, 'pump runs re-derived');
-    return changedSites.size;
+    return { sites: changedSites.size, updates };
   }
 }
 

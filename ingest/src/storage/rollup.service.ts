@@ -44,7 +44,7 @@ export interface SweepResult {
  *     day buckets;
  *  2. recomputes the minutes that received late rows (listed in rollup_pending by the writer)
  *     from raw rows, and their hours and days whole from minute buckets;
- *  3. re-derives pump runs for the sites touched.
+ *  3. re-derives pump runs for the sites touched, in the same transaction as 1 or 2.
  * Staleness: buckets trail raw readings by 30–40 s after each minute closes (rollup-timing.ts).
  */
 @Injectable()
@@ -95,8 +95,15 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
 
   private async sweepOnce(): Promise<SweepResult> {
     const result: SweepResult = { closed: null, lateMinutes: 0, pumpSites: 0 };
-    const pumpFrom = new Map<string, Date>();
-    const touch = (siteId: string, from: Date) => {
+    // Pump runs are re-derived inside the transaction that consumes the watermark step or the
+    // late-minute marks that asked for it; their events go out after that commit.
+    const rederive = async (trx: Database, pumpFrom: Map<string, Date>) => {
+      if (pumpFrom.size === 0) return [];
+      const { sites, updates } = await this.pumpRuns.rederiveIn(trx, pumpFrom);
+      result.pumpSites += sites;
+      return updates;
+    };
+    const touch = (pumpFrom: Map<string, Date>, siteId: string, from: Date) => {
       const known = pumpFrom.get(siteId);
       if (!known || from < known) pumpFrom.set(siteId, from);
     };
@@ -130,10 +137,12 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
           where m.bucket_start >= ${from} and m.bucket_start < ${to} and c.name like 'pump/%'`.execute(
           trx,
         );
-        for (const { site_id } of pumpSites) touch(site_id, from);
-        return { from, to };
+        const pumpFrom = new Map<string, Date>();
+        for (const { site_id } of pumpSites) touch(pumpFrom, site_id, from);
+        return { from, to, updates: await rederive(trx, pumpFrom) };
       });
       if (!chunk) break;
+      this.pumpRuns.emit(chunk.updates);
       result.closed = { from: result.closed?.from ?? chunk.from, to: chunk.to };
       if (this.stopped) break;
     }
@@ -141,29 +150,31 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
     // 2. Minutes that received late rows, up to the watermark.
     for (;;) {
       const handled = await this.db.transaction().execute(async (trx) => {
-        if (!(await tryLock(trx))) return 0;
+        if (!(await tryLock(trx))) return { count: 0, updates: [] };
+        // Marks locked by a batch still committing are skipped: that batch's rows are not
+        // visible yet, so recomputing now would miss them; the next sweep takes the mark.
         const { rows } = await sql<{ site_id: string; minute: Date }>`
           delete from rollup_pending
           where (site_id, minute) in (
             select site_id, minute from rollup_pending
             where minute < (select watermark from rollup_state where name = ${STATE_NAME})
-            order by minute limit ${PENDING_CHUNK})
+            order by minute limit ${PENDING_CHUNK}
+            for update skip locked)
           returning site_id, minute`.execute(trx);
-        if (rows.length === 0) return 0;
+        if (rows.length === 0) return { count: 0, updates: [] };
         await this.buckets.recomputeMinutes(
           trx,
           rows.map((r) => r.site_id),
           rows.map((r) => r.minute),
         );
-        for (const r of rows) touch(r.site_id, r.minute);
-        return rows.length;
+        const pumpFrom = new Map<string, Date>();
+        for (const r of rows) touch(pumpFrom, r.site_id, r.minute);
+        return { count: rows.length, updates: await rederive(trx, pumpFrom) };
       });
-      result.lateMinutes += handled;
-      if (handled < PENDING_CHUNK || this.stopped) break;
+      this.pumpRuns.emit(handled.updates);
+      result.lateMinutes += handled.count;
+      if (handled.count < PENDING_CHUNK || this.stopped) break;
     }
-
-    // 3. Pump runs of the sites touched.
-    if (pumpFrom.size > 0) result.pumpSites = await this.pumpRuns.rederive(pumpFrom);
     return result;
   }
 }

@@ -129,6 +129,12 @@ export class TelemetryBatchRepository {
       if (lateSites.length > 0) {
         // The exact test uses the database clock at the end of the transaction, the same clock
         // the roll-up uses to decide which minutes are closed (see rollup-timing.ts).
+        //
+        // A mark that is already there is updated, not skipped: the update locks it until this
+        // transaction commits, and the sweep skips locked marks (FOR UPDATE SKIP LOCKED). With
+        // DO NOTHING, a sweep could consume the existing mark and recompute the minute before
+        // these rows were visible, and the rows would never reach their buckets (found by the
+        // fault runs, issue 9). Sorted, so concurrent batches lock marks in the same order.
         await sql`
           insert into rollup_pending (site_id, minute)
           select distinct l.s, m.minute
@@ -138,7 +144,8 @@ export class TelemetryBatchRepository {
             date_trunc('minute', to_timestamp(l.t), 'UTC') + l.span * interval '1 minute',
             interval '1 minute') as m(minute)
           where to_timestamp(l.t) < clock_timestamp() - ${LATE_AFTER_SECONDS} * interval '1 second'
-          on conflict do nothing`.execute(trx);
+          order by 1, 2
+          on conflict (site_id, minute) do update set marked_at = excluded.marked_at`.execute(trx);
       }
       const at = new Date().toISOString();
       const updates: SiteUpdatedEvent[] = [...perSite].map(([siteId, span]) => ({

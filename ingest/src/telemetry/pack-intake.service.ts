@@ -5,7 +5,7 @@ import { MetricsService } from '../metrics/metrics.service.js';
 import type { BatchOutcome } from '../storage/telemetry-batch.repository.js';
 import { GroupCommitWriter } from './group-commit-writer.js';
 import type { PackToStore, RejectToStore } from './pack.js';
-import { rejectCategory } from './reject-reasons.js';
+import { rejectCategory, storableText } from './reject-reasons.js';
 
 /** Raw text kept with a reject, characters. */
 const RAW_LIMIT = 500;
@@ -63,11 +63,13 @@ export class PackIntakeService {
       this.metrics.rejects.inc({ reason: 'pack' });
       rejects.push({
         recordName: null,
-        reason: validation.packError,
-        raw: payload
-          .subarray(0, RAW_LIMIT * 4)
-          .toString('utf8')
-          .slice(0, RAW_LIMIT),
+        reason: storableText(validation.packError),
+        raw: storableText(
+          payload
+            .subarray(0, RAW_LIMIT * 4)
+            .toString('utf8')
+            .slice(0, RAW_LIMIT),
+        ),
       });
       report = {
         receivedAt: new Date(receivedAt).toISOString(),
@@ -82,9 +84,9 @@ export class PackIntakeService {
         this.metrics.rejects.inc({ reason: rejectCategory(r.reason) });
         const raw = records?.[r.index];
         rejects.push({
-          recordName: r.name,
-          reason: r.reason,
-          raw: raw === undefined ? null : JSON.stringify(raw).slice(0, RAW_LIMIT),
+          recordName: r.name === null ? null : storableText(r.name),
+          reason: storableText(r.reason),
+          raw: raw === undefined ? null : storableText(rawText(raw)),
         });
       }
       report = {
@@ -111,6 +113,18 @@ export class PackIntakeService {
     this.writer.submit(pack, (error: Error | null, _outcome?: BatchOutcome) =>
       done(error, error ? null : report),
     );
+  }
+}
+
+/**
+ * A refused record as JSON text, cut to the stored length. JSON.stringify recurses, so a record
+ * nested thousands of levels deep (which JSON.parse reads fine) would overflow the stack.
+ */
+function rawText(record: unknown): string {
+  try {
+    return JSON.stringify(record).slice(0, RAW_LIMIT);
+  } catch {
+    return '(record nested too deeply to show)';
   }
 }
 

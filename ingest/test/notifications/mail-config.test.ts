@@ -41,4 +41,13 @@ describe('mail settings', () => {
       /SMTP_USER: SMTP_PASSWORD is set but SMTP_USER is not/,
     );
   });
+
+  it('retries failed sends from MAIL_RETRY_FIRST_S, doubling up to an hour', () => {
+    const standard = readMailConfig({}).retryDelay!;
+    expect([1, 2, 3].map(standard)).toEqual([30, 60, 120]);
+    expect(standard(20)).toBe(3600);
+    const quick = readMailConfig({ MAIL_RETRY_FIRST_S: '0.5' }).retryDelay!;
+    expect([1, 2, 3].map(quick)).toEqual([0.5, 1, 2]);
+    expect(() => readMailConfig({ MAIL_RETRY_FIRST_S: '0' })).toThrow(/MAIL_RETRY_FIRST_S/);
+  });
 });

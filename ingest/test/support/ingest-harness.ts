@@ -31,6 +31,7 @@ export function testConfig(
     rollupIntervalMs: 600_000,
     lastSeenIntervalMs: 200,
     dbPoolSize: 4,
+    broker: { mode: 'single' },
     logLevel: process.env.INGEST_TEST_LOG ?? 'silent',
     ...overrides,
   };
