@@ -5,7 +5,15 @@ import { defineConfig } from 'vitest/config';
 // template database once, and stops the cluster afterwards (see db/src/testing/).
 export default defineConfig({
   test: {
-    projects: ['db', 'core', 'ingest', 'api', 'simulator', 'dashboard'],
+    projects: [
+      'db',
+      'core',
+      'ingest',
+      'ingest/vitest.system.config.ts',
+      'api',
+      'simulator',
+      'dashboard',
+    ],
     globalSetup: ['./db/src/testing/global-setup.ts'],
   },
 });

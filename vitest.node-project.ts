@@ -6,7 +6,20 @@ import { defineProject } from 'vitest/config';
  * constructor injection gets its decorator metadata (esbuild does not emit it), and the
  * `source` export condition makes workspace packages resolve to their `src/` without a build.
  */
-export function nodeProject(name: string, options: { timeoutMs?: number } = {}) {
+export interface NodeProjectOptions {
+  timeoutMs?: number;
+  /** Files this project runs (default: every test of the workspace). */
+  include?: string[];
+  exclude?: string[];
+  /**
+   * Projects run in groups, lowest first (Vitest `sequence.groupOrder`). Whole-system tests that
+   * kill and restart processes and wait for them run in a later group, one file at a time, so
+   * the rest of the suite is not competing for the two cores while they wait on the clock.
+   */
+  groupOrder?: number;
+}
+
+export function nodeProject(name: string, options: NodeProjectOptions = {}) {
   return defineProject({
     plugins: [
       swc.vite({
@@ -22,7 +35,15 @@ export function nodeProject(name: string, options: { timeoutMs?: number } = {}) 
     test: {
       name,
       environment: 'node',
-      include: ['test/**/*.test.ts', 'src/**/*.spec.ts', 'test/**/*.e2e-spec.ts'],
+      include: options.include ?? [
+        'test/**/*.test.ts',
+        'src/**/*.spec.ts',
+        'test/**/*.e2e-spec.ts',
+      ],
+      ...(options.exclude ? { exclude: ['**/node_modules/**', ...options.exclude] } : {}),
+      ...(options.groupOrder !== undefined
+        ? { sequence: { groupOrder: options.groupOrder }, fileParallelism: false }
+        : {}),
       testTimeout: options.timeoutMs ?? 30_000,
       hookTimeout: 60_000,
     },
