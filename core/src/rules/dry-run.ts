@@ -35,8 +35,8 @@ function pvShareOfRating(input: RuleInput, pump: RulePumpConfig, fromT: number):
 }
 
 /** The level at which the tank counts as full: the float_stuck rule's, so the two agree. */
-function fullFractionForNoRise(input: RuleInput): number {
-  return ruleParamsFor('float_stuck', input.site).fullFraction;
+function fullFractionForNoRise(input: RuleInput, overrides?: RuleParamsOverrides): number {
+  return ruleParamsFor('float_stuck', input.site, overrides).fullFraction;
 }
 
 function evaluatePump(
@@ -98,7 +98,7 @@ function evaluatePump(
     levels.some((s) => {
       if (s.t < lastLongRun.startT || s.t > lastLongRun.endT) return false;
       const r = tankVolumeFromLevel(tank, s.v);
-      return r.ok && r.fractionFull >= fullFractionForNoRise(input);
+      return r.ok && r.fractionFull >= fullFractionForNoRise(input, overrides);
     });
   if (lastLongRun && (tank || flows.length > 0) && !fullDuringRun) {
     const d = waterDeliveredByRun(lastLongRun, { tank, levels, flows });
