@@ -113,8 +113,12 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
     await this.idle();
   }
 
-  private async idle(): Promise<void> {
-    while (this.debounce.size > 0 || this.waiting.size > 0 || this.running.size > 0) {
+  /** Resolves when nothing is debounced, waiting or running, or at `until` (epoch ms). */
+  private async idle(until = Number.POSITIVE_INFINITY): Promise<void> {
+    while (
+      (this.debounce.size > 0 || this.waiting.size > 0 || this.running.size > 0) &&
+      Date.now() < until
+    ) {
       await new Promise<void>((resolve) => {
         this.idleWaiters.push(resolve);
         setTimeout(resolve, 20);
@@ -147,7 +151,10 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
       }
       this.request(id, [...kinds]);
     }
-    await this.idle();
+    // Wait for this round's evaluations, but at most a tick: at a busy fleet, commits keep some
+    // site debounced or running at every moment, and a round that waited for a fully idle
+    // scheduler would never end, so no later round would ever judge a gateway gone silent.
+    await this.idle(Date.now() + this.config.tickMs);
     await this.summaries.run();
   }
 
