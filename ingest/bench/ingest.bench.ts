@@ -12,7 +12,7 @@
  * at 10,000 connections; zero acknowledged records missing.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
@@ -24,13 +24,13 @@ import {
   createPool,
   dataRoot,
   ensureDatabase,
-  hashGatewaySecret,
   migrateToLatest,
   repoRoot,
   type DB,
 } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import copyStreams from 'pg-copy-streams';
+import { seedBenchGateways } from './seed-bench-gateways.js';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 2000);
@@ -38,7 +38,6 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 25);
 const WARMUP = Number(process.env.BENCH_WARMUP_SECONDS ?? 5);
 const OFFERED = Number(process.env.BENCH_OFFERED_PER_SECOND ?? 20_000);
 const COPY_ROWS = Number(process.env.BENCH_COPY_ROWS ?? 1_000_000);
-const SECRET = 'bench-secret-not-for-production';
 const RECORDS_PER_PACK = 8;
 
 interface GeneratorResult {
@@ -161,21 +160,7 @@ try {
 
   // Gateways: one site each, one company.
   log(`seeding ${CONNECTIONS} sites and gateways`);
-  await sql`
-    with c as (insert into companies (name) values ('Bench installer') returning id),
-    s as (
-      insert into sites (company_id, name, latitude, longitude, time_zone)
-      select c.id, 'Bench site ' || g, 10, 10, 'UTC' from c, generate_series(1, ${CONNECTIONS}) g
-      returning id, name)
-    insert into gateways (id, site_id, secret_hash)
-    select 'bench-gw-' || lpad(split_part(s.name, ' ', 3), 6, '0'), s.id, ${hashGatewaySecret(SECRET)}
-    from s`.execute(db);
-  const gateways = await db
-    .selectFrom('gateways')
-    .select(['id', 'site_id'])
-    .orderBy('id')
-    .execute();
-  writeFileSync(gatewaysFile, JSON.stringify(gateways.map((g) => ({ id: g.id, secret: SECRET }))));
+  const gateways = await seedBenchGateways(db, CONNECTIONS, gatewaysFile);
 
   // (b) COPY ceiling into a table identical to readings (same columns and primary key).
   log(`COPY ceiling: ${COPY_ROWS} rows`);

@@ -14,21 +14,16 @@
  * CPU split shows where the ceiling is.
  */
 import { spawn } from 'node:child_process';
-import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { readFileSync, readdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { fileURLToPath } from 'node:url';
-import {
-  createPool,
-  hashGatewaySecret,
-  repoRoot,
-  startThrowawayCluster,
-  type DB,
-} from '@wellkept/db';
-import { Kysely, PostgresDialect, sql } from 'kysely';
+import { createPool, repoRoot, startThrowawayCluster, type DB } from '@wellkept/db';
+import { Kysely, PostgresDialect } from 'kysely';
 import copyStreams from 'pg-copy-streams';
+import { seedBenchGateways } from './seed-bench-gateways.js';
 import {
   scratchFolder,
   startHaproxy,
@@ -47,7 +42,6 @@ const OFFERED = Number(process.env.BENCH_OFFERED_PER_SECOND ?? 20_000);
  * process on 2 shared cores, 20,000 packs in flight make PUBACKs take longer than a run.
  */
 const MAX_INFLIGHT = Number(process.env.BENCH_MAX_INFLIGHT ?? 5);
-const SECRET = 'bench-secret-not-for-production';
 const RECORDS_PER_PACK = 8;
 const CLOCK_TICKS = 100; // USER_HZ on Linux: /proc/<pid>/stat counts CPU time in 1/100 s
 
@@ -231,21 +225,7 @@ try {
   const pool = createPool(pg.databaseUrl, { max: 2, applicationName: 'wellkept-bench' });
   const db = new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
   log(`seeding ${CONNECTIONS} sites and gateways`);
-  await sql`
-    with c as (insert into companies (name) values ('Bench installer') returning id),
-    s as (
-      insert into sites (company_id, name, latitude, longitude, time_zone)
-      select c.id, 'Bench site ' || g, 10, 10, 'UTC' from c, generate_series(1, ${CONNECTIONS}) g
-      returning id, name)
-    insert into gateways (id, site_id, secret_hash)
-    select 'bench-gw-' || lpad(split_part(s.name, ' ', 3), 6, '0'), s.id, ${hashGatewaySecret(SECRET)}
-    from s`.execute(db);
-  const gateways = await db
-    .selectFrom('gateways')
-    .select(['id', 'site_id'])
-    .orderBy('id')
-    .execute();
-  writeFileSync(gatewaysFile, JSON.stringify(gateways.map((g) => ({ id: g.id, secret: SECRET }))));
+  const gateways = await seedBenchGateways(db, CONNECTIONS, gatewaysFile);
 
   const redis = await startRedis(scratch.dir);
   running.push(redis);
