@@ -176,6 +176,7 @@ export interface EmailOutbox {
   text_body: string;
   to_address: string;
   user_id: string | null;
+  waiting_for_server: Generated<boolean>;
 }
 
 export interface FloatSwitches {

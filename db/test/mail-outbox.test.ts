@@ -1,6 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { enqueueMail, OutboxSender, outboxMessageId, retryDelaySeconds } from '../src/index.js';
-import { type MailCatcher, startMailCatcher, useTestDatabase } from '../src/testing.js';
+import {
+  enqueueMail,
+  isServerUnreachable,
+  OutboxSender,
+  outboxMessageId,
+  retryDelaySeconds,
+} from '../src/index.js';
+import { freePort, type MailCatcher, startMailCatcher, useTestDatabase } from '../src/testing.js';
 
 const t = useTestDatabase('db_outbox');
 let mail: MailCatcher;
@@ -108,6 +114,71 @@ describe('e-mail outbox', () => {
       `<outbox-${id}@wellkept.example>`,
     ]);
     expect(outboxMessageId(7, 'Wellkept <alerts@watch.example>')).toBe('<outbox-7@watch.example>');
+  });
+
+  it('sends mail held through an SMTP outage as soon as the server answers, not after its backoff', async () => {
+    await t.db.deleteFrom('email_outbox').execute();
+    const smtpPort = await freePort();
+    const webPort = await freePort();
+    const smtp = { host: '127.0.0.1', port: smtpPort, from: 'Wellkept <alerts@wellkept.example>' };
+    for (let i = 0; i < 3; i++) await enqueueMail(t.db, message(`outage-${i}`));
+    // An hour's backoff after every failure, rounds every 0.2 s: only the probe can send early.
+    const sender = new OutboxSender(t.db, smtp, {
+      intervalSeconds: 0.2,
+      retryDelay: () => 3600,
+      log: () => {},
+    });
+    sender.start();
+    const waiting = async () =>
+      t.db
+        .selectFrom('email_outbox')
+        .select(['waiting_for_server', 'next_attempt_at', 'attempts', 'last_error'])
+        .where('dedupe_key', 'like', 'outage-%')
+        .execute();
+    for (let tries = 0; ; tries++) {
+      const rows = await waiting();
+      if (rows.every((r) => r.attempts >= 1 && r.waiting_for_server)) break;
+      if (tries > 100) throw new Error(`messages never failed: ${JSON.stringify(rows)}`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    const held = await waiting();
+    expect(held.every((r) => r.next_attempt_at.getTime() > Date.now() + 3000_000)).toBe(true);
+    expect(held.every((r) => /ECONNREFUSED|connect/i.test(r.last_error ?? ''))).toBe(true);
+
+    const back = await startMailCatcher({ smtpPort, webPort });
+    try {
+      for (let i = 0; i < 3; i++)
+        await back.waitFor((m) => m.subject === `Subject outage-${i}`, 15_000);
+      const rows = await t.db
+        .selectFrom('email_outbox')
+        .select(['sent_at', 'waiting_for_server'])
+        .where('dedupe_key', 'like', 'outage-%')
+        .execute();
+      expect(rows.every((r) => r.sent_at !== null)).toBe(true);
+      expect(await back.messages()).toHaveLength(3); // once each
+    } finally {
+      await sender.stop();
+      await back.stop();
+    }
+  });
+
+  it('retries early only failures to reach the server, not messages the server refused', () => {
+    const refused = Object.assign(new Error('connect ECONNREFUSED'), { code: 'ESOCKET' });
+    const timedOut = Object.assign(new Error('Greeting never received'), { code: 'ETIMEDOUT' });
+    const busy = Object.assign(new Error('421 try later'), {
+      code: 'EENVELOPE',
+      responseCode: 421,
+    });
+    const rejected = Object.assign(new Error('550 no such user'), {
+      code: 'EENVELOPE',
+      responseCode: 550,
+    });
+    expect([refused, timedOut, busy].map(isServerUnreachable)).toEqual([true, true, true]);
+    expect([rejected, new Error('x'), null].map(isServerUnreachable)).toEqual([
+      false,
+      false,
+      false,
+    ]);
   });
 
   it('holds a message until its hold time (quiet hours)', async () => {

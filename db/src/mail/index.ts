@@ -11,6 +11,7 @@ export {
   OutboxSender,
   retryDelaySeconds,
   outboxMessageId,
+  isServerUnreachable,
   type SmtpSettings,
   type OutboxSenderOptions,
 } from './outbox-sender.js';

@@ -1,6 +1,12 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Database } from '../database.js';
-import { claimDueMail, markMailFailed, markMailSent } from './outbox.js';
+import {
+  claimDueMail,
+  hasMailWaitingForServer,
+  markMailFailed,
+  markMailSent,
+  releaseMailWaitingForServer,
+} from './outbox.js';
 
 /** How to reach the SMTP server. */
 export interface SmtpSettings {
@@ -40,6 +46,17 @@ export function retryDelaySeconds(attempts: number): number {
 }
 
 /**
+ * Whether a send failed because the SMTP server could not be reached at all (refused, timed
+ * out, dropped, name not resolved, or "421 service not available"), rather than answering and
+ * refusing this message. Only such failures are retried early when the server comes back.
+ */
+export function isServerUnreachable(error: unknown): boolean {
+  const e = error as { code?: unknown; responseCode?: unknown } | null;
+  const codes = ['ECONNECTION', 'ETIMEDOUT', 'ESOCKET', 'EDNS', 'ECONNREFUSED', 'ECONNRESET'];
+  return typeof e?.code === 'string' && codes.includes(e.code) ? true : e?.responseCode === 421;
+}
+
+/**
  * Sends what is due in `email_outbox` through nodemailer. Framework-free so the API (invites,
  * password resets) and the rules module (alert mail) share it. Each message is marked sent
  * once; failures are retried with backoff. `trigger()` runs a round soon (after an enqueue);
@@ -55,6 +72,7 @@ export class OutboxSender {
   private running: Promise<void> | undefined;
   private again = false;
   private stopped = false;
+  private lastProbeAt = 0;
 
   constructor(
     private readonly db: Database,
@@ -105,16 +123,42 @@ export class OutboxSender {
             html: mail.html ?? undefined,
           });
           await markMailSent(this.db, mail.id, String(info.messageId ?? ''));
-          sent++;
+          // The server answers: what waited for it need not wait out its backoff.
+          if (sent++ === 0) await releaseMailWaitingForServer(this.db);
         } catch (error) {
           failed++;
           const reason = error instanceof Error ? error.message : String(error);
           this.options.log(`outbox: message ${mail.id} attempt ${mail.attempts} failed: ${reason}`);
-          await markMailFailed(this.db, mail.id, reason, this.options.retryDelay(mail.attempts));
+          await markMailFailed(
+            this.db,
+            mail.id,
+            reason,
+            this.options.retryDelay(mail.attempts),
+            isServerUnreachable(error),
+          );
         }
       }
       if (this.stopped) return { sent, failed };
     }
+  }
+
+  /**
+   * While messages wait because the server could not be reached, asks the server (an SMTP
+   * greeting and EHLO, nothing sent) at most once per interval; once it answers, those messages
+   * are made due now. Without this, mail held through an outage of an hour would wait up to
+   * another hour of backoff after the server returned. Returns whether any were released.
+   */
+  private async releaseIfServerBack(): Promise<boolean> {
+    const now = Date.now();
+    if (now - this.lastProbeAt < this.options.intervalSeconds * 1000) return false;
+    if (!(await hasMailWaitingForServer(this.db, this.options.maxAttempts))) return false;
+    this.lastProbeAt = now;
+    try {
+      await this.transporter.verify();
+    } catch {
+      return false; // still down: the backoff stands
+    }
+    return (await releaseMailWaitingForServer(this.db)) > 0;
   }
 
   /** Runs a round soon; rounds never overlap within one sender. */
@@ -129,6 +173,7 @@ export class OutboxSender {
         do {
           this.again = false;
           await this.sendDue();
+          if (!this.stopped && (await this.releaseIfServerBack())) this.again = true;
         } while (this.again && !this.stopped);
       } catch (error) {
         this.options.log(`outbox: round failed: ${error instanceof Error ? error.message : error}`);

@@ -83,6 +83,7 @@ export async function claimDueMail(
   }>`
     update email_outbox
        set attempts = attempts + 1,
+           waiting_for_server = false,
            next_attempt_at = now() + make_interval(secs => ${options.leaseSeconds})
      where id in (
        select id from email_outbox
@@ -115,20 +116,55 @@ export async function markMailSent(db: Database, id: number, messageId: string):
   return Number(r.numUpdatedRows) === 1;
 }
 
-/** Records a failed attempt and when to try again. */
+/**
+ * Records a failed attempt and when to try again. `serverUnreachable` marks a failure to reach
+ * the SMTP server at all (see {@link releaseMailWaitingForServer}).
+ */
 export async function markMailFailed(
   db: Database,
   id: number,
   error: string,
   retryInSeconds: number,
+  serverUnreachable = false,
 ): Promise<void> {
   await db
     .updateTable('email_outbox')
     .set({
       last_error: error.slice(0, 1000),
+      waiting_for_server: serverUnreachable,
       next_attempt_at: sql<Date>`now() + make_interval(secs => ${retryInSeconds})`,
     })
     .where('id', '=', id)
     .where('sent_at', 'is', null)
     .execute();
+}
+
+/** Whether some message is waiting out a backoff because the SMTP server could not be reached. */
+export async function hasMailWaitingForServer(db: Database, maxAttempts: number): Promise<boolean> {
+  const row = await db
+    .selectFrom('email_outbox')
+    .select('id')
+    .where('sent_at', 'is', null)
+    .where('waiting_for_server', '=', true)
+    .where('next_attempt_at', '>', sql<Date>`now()`)
+    .where('attempts', '<', maxAttempts)
+    .limit(1)
+    .executeTakeFirst();
+  return row !== undefined;
+}
+
+/**
+ * Makes every message that was waiting for the SMTP server due now (call once the server
+ * answers again). Rows claimed by a sender are not touched: claiming clears the mark, and the
+ * update re-checks it under the row lock. Returns how many were released.
+ */
+export async function releaseMailWaitingForServer(db: Database): Promise<number> {
+  const r = await db
+    .updateTable('email_outbox')
+    .set({ next_attempt_at: sql<Date>`now()` })
+    .where('sent_at', 'is', null)
+    .where('waiting_for_server', '=', true)
+    .where('next_attempt_at', '>', sql<Date>`now()`)
+    .executeTakeFirst();
+  return Number(r.numUpdatedRows);
 }

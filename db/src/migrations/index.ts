@@ -4,6 +4,7 @@ import * as ingestRollups from './20261202_0510_ingest_rollups.js';
 import * as alertNotifications from './20261202_0700_alert_notifications.js';
 import * as fastTimeZoneCheck from './20261202_1100_fast_time_zone_check.js';
 import * as sixHourBuckets from './20261202_1130_six_hour_buckets.js';
+import * as mailWaitingForServer from './20261202_1400_mail_waiting_for_server.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_0700_alert_notifications': alertNotifications,
   '20261202_1100_fast_time_zone_check': fastTimeZoneCheck,
   '20261202_1130_six_hour_buckets': sixHourBuckets,
+  '20261202_1400_mail_waiting_for_server': mailWaitingForServer,
 };

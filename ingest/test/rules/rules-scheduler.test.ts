@@ -1,0 +1,86 @@
+import { startMailCatcher, useTestDatabase, type MailCatcher } from '@wellkept/db/testing';
+import type { MqttClient } from 'mqtt';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { connectGateway } from '../support/ingest-harness.js';
+import { publishReadings } from './support/publish.js';
+import {
+  FakeClock,
+  createCompany,
+  createSite,
+  startRulesApp,
+  type RulesApp,
+  type TestSite,
+} from './support/rules-harness.js';
+
+const database = useTestDatabase('rules_scheduler');
+const clock = new FakeClock(Date.now());
+let catcher: MailCatcher;
+let rules: RulesApp;
+let busy: TestSite;
+let quiet: TestSite;
+let quietClient: MqttClient;
+
+beforeAll(async () => {
+  catcher = await startMailCatcher();
+  // Short ticks; the debounce is longer than the gap between the busy site's commits, so that
+  // site is always waiting for an evaluation: the scheduler is never idle.
+  rules = await startRulesApp(database.url, catcher, {
+    clock,
+    rules: { tickMs: 150, debounceMs: 40, concurrency: 2 },
+  });
+  const company = await createCompany(database.db);
+  busy = await createSite(database.db, company.id, { name: 'Busy homestead' });
+  quiet = await createSite(database.db, company.id, { name: 'Homestead that goes quiet' });
+  quietClient = await connectGateway(rules.mqttUrl, quiet);
+});
+
+afterAll(async () => {
+  quietClient?.end(true);
+  await rules?.close();
+  await catcher?.stop();
+});
+
+async function silentAlert(siteId: string) {
+  return database.db
+    .selectFrom('alerts')
+    .select(['kind', 'status'])
+    .where('site_id', '=', siteId)
+    .where('kind', '=', 'gateway_silent')
+    .executeTakeFirst();
+}
+
+describe('the rules scheduler', () => {
+  it('judges a gateway silent while another site commits without pause (no starvation)', async () => {
+    const nowT = clock.now().getTime() / 1000;
+    await publishReadings(quietClient, quiet.gatewayId, [
+      { name: 'battery/voltage', t: nowT - 30, value: 25.4 },
+    ]);
+    // A first round sees the quiet site reporting.
+    await rules.scheduler.tick();
+    expect(await silentAlert(quiet.id)).toBeUndefined();
+
+    // From now on some site is always debounced or being evaluated, as at a busy fleet.
+    const keepBusy = setInterval(() => rules.scheduler.dataArrived(busy.id), 5);
+    try {
+      // Let rounds start while the fleet is busy: a round that waits for an idle scheduler
+      // would now wait for ever, and no later round would come.
+      await new Promise((r) => setTimeout(r, 600));
+      // The quiet gateway has said nothing for an hour (12 reporting intervals of 60 s and
+      // more than the 5 that make it silent). Only a later round of the time-based rules can
+      // notice; a round that waited for an idle scheduler would never end and none would come.
+      clock.advance(3600_000);
+      const deadline = Date.now() + 15_000;
+      let alert = await silentAlert(quiet.id);
+      while (!alert && Date.now() < deadline) {
+        await new Promise((r) => setTimeout(r, 100));
+        alert = await silentAlert(quiet.id);
+      }
+      expect(alert).toEqual({ kind: 'gateway_silent', status: 'open' });
+      // And the busy site's own data rules kept running meanwhile (no gateway alert there:
+      // it never published, so its gateway has "not reported yet").
+      expect(await silentAlert(busy.id)).toBeUndefined();
+    } finally {
+      clearInterval(keepBusy);
+    }
+  });
+});
