@@ -212,7 +212,11 @@ try {
   const mqttPort = await freePort();
   const httpPort = await freePort();
   const profile = process.env.BENCH_INGEST_PROFILE
-    ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_INGEST_PROFILE}`]
+    ? [
+        '--prof',
+        '--no-logfile-per-isolate',
+        `--logfile=${process.env.BENCH_INGEST_PROFILE}/ingest-v8.log`,
+      ]
     : [];
   const ingest = node([...profile, join(repoRoot, 'ingest/dist/main.js')], {
     DATABASE_URL: databaseUrl,

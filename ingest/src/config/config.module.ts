@@ -9,23 +9,37 @@ import {
 import { createPool, type DB } from '@wellkept/db';
 import { Kysely, PostgresDialect } from 'kysely';
 import type { Logger } from 'pino';
-import { DATABASE, type Database } from '../database/database.js';
+import { DATABASE, WRITER_DATABASE, type Database } from '../database/database.js';
 import { LOGGER } from '../logging/logger.js';
 import { INGEST_CONFIG, type IngestConfig } from './ingest-config.js';
 
-/** Closes the pool last: Nest runs every `beforeApplicationShutdown` (flushes) before this. */
+/** Closes the pools last: Nest runs every `beforeApplicationShutdown` (flushes) before this. */
 @Injectable()
 class DatabaseCloser implements OnApplicationShutdown {
-  constructor(@Inject(DATABASE) private readonly db: Database) {}
+  constructor(
+    @Inject(DATABASE) private readonly db: Database,
+    @Inject(WRITER_DATABASE) private readonly writerDb: Database,
+  ) {}
 
   async onApplicationShutdown(): Promise<void> {
-    await this.db.destroy();
+    await Promise.all([this.db.destroy(), this.writerDb.destroy()]);
   }
+}
+
+function openDatabase(url: string, max: number, name: string, logger: Logger): Database {
+  const pool = createPool(url, { max, applicationName: name });
+  // An idle connection dropped by a restarting server must not crash the process; the pool
+  // replaces it, and commits in flight fail and are re-sent by the gateways.
+  pool.on('error', (error) => logger.warn({ err: error.message }, 'idle database connection lost'));
+  // A connection lost while checked out also emits 'error' (its query fails too); without a
+  // listener that would be an uncaught exception.
+  pool.on('connect', (client) => client.on('error', () => undefined));
+  return new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
 }
 
 /**
  * What every module of the service shares: the validated settings, the logger and the
- * database pool. Built from values read once in main.ts (or given by a test).
+ * database pools. Built from values read once in main.ts (or given by a test).
  */
 @Global()
 @Module({})
@@ -38,25 +52,22 @@ export class ConfigModule {
         { provide: LOGGER, useValue: logger },
         {
           provide: DATABASE,
-          useFactory: () => {
-            const pool = createPool(config.databaseUrl, {
-              max: config.dbPoolSize,
-              applicationName: 'wellkept-ingest',
-            });
-            // An idle connection dropped by a restarting server must not crash the process; the
-            // pool replaces it, and commits in flight fail and are re-sent by the gateways.
-            pool.on('error', (error) =>
-              logger.warn({ err: error.message }, 'idle database connection lost'),
-            );
-            // A connection lost while checked out also emits 'error' (its query fails too);
-            // without a listener that would be an uncaught exception.
-            pool.on('connect', (client) => client.on('error', () => undefined));
-            return new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
-          },
+          useFactory: () =>
+            openDatabase(config.databaseUrl, config.dbPoolSize, 'wellkept-ingest', logger),
+        },
+        {
+          provide: WRITER_DATABASE,
+          useFactory: () =>
+            openDatabase(
+              config.databaseUrl,
+              config.commitConcurrency,
+              'wellkept-ingest-writer',
+              logger,
+            ),
         },
         DatabaseCloser,
       ],
-      exports: [INGEST_CONFIG, LOGGER, DATABASE],
+      exports: [INGEST_CONFIG, LOGGER, DATABASE, WRITER_DATABASE],
     };
   }
 }

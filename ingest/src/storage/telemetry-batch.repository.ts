@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { sql } from 'kysely';
-import { DATABASE, type Database } from '../database/database.js';
+import { WRITER_DATABASE, type Database } from '../database/database.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { ChannelCache } from '../telemetry/channel-cache.js';
 import { storedText, storedValue, type PackToStore } from '../telemetry/pack.js';
@@ -37,7 +37,7 @@ export interface BatchOutcome {
 @Injectable()
 export class TelemetryBatchRepository {
   constructor(
-    @Inject(DATABASE) private readonly db: Database,
+    @Inject(WRITER_DATABASE) private readonly db: Database,
     private readonly channels: ChannelCache,
     private readonly partitions: PartitionsService,
     private readonly siteUpdates: SiteUpdates,
