@@ -73,14 +73,20 @@ export class ReadingsRepository {
     }
     const table = sql.table(BUCKET_TABLE[source]);
     if (stepSeconds === BUCKET_SECONDS[source]) {
-      // Points are the buckets themselves: read them in index order, nothing to regroup.
+      // Points are the buckets themselves: one index-only range scan per channel, already in
+      // time order (the key covers the columns read, migration 1410). With `channel_id = any()`
+      // PostgreSQL 15 scans the same ranges but then sorts every row. No outer ORDER BY: the
+      // service groups rows by channel, and each channel's rows come in its subquery's order.
       const { rows } = await sql<SeriesRow>`
-        select channel_id, (extract(epoch from bucket_start) * 1000)::float8 as t,
-               sum / sample_count as mean, min, max, 1 as rows
-          from ${table}
-         where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
-           and bucket_start >= ${from} and bucket_start < ${to}
-         order by channel_id, bucket_start`.execute(this.db);
+        select c.id as channel_id, (extract(epoch from b.bucket_start) * 1000)::float8 as t,
+               b.sum / b.sample_count as mean, b.min, b.max, 1 as rows
+          from unnest(${channelIds}::int[]) with ordinality as c(id, ord)
+         cross join lateral (
+               select bucket_start, sum, sample_count, min, max
+                 from ${table}
+                where site_id = ${site.id} and channel_id = c.id
+                  and bucket_start >= ${from} and bucket_start < ${to}
+                order by bucket_start) b`.execute(this.db);
       return rows;
     }
     const { rows } = await sql<SeriesRow>`

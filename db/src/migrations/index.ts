@@ -5,6 +5,7 @@ import * as alertNotifications from './20261202_0700_alert_notifications.js';
 import * as fastTimeZoneCheck from './20261202_1100_fast_time_zone_check.js';
 import * as sixHourBuckets from './20261202_1130_six_hour_buckets.js';
 import * as mailWaitingForServer from './20261202_1400_mail_waiting_for_server.js';
+import * as coveringBucketKeys from './20261202_1410_covering_bucket_keys.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -17,4 +18,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_1100_fast_time_zone_check': fastTimeZoneCheck,
   '20261202_1130_six_hour_buckets': sixHourBuckets,
   '20261202_1400_mail_waiting_for_server': mailWaitingForServer,
+  '20261202_1410_covering_bucket_keys': coveringBucketKeys,
 };
