@@ -87,6 +87,7 @@ export async function runLoad(o: LoadOptions): Promise<LoadResult> {
       INGEST_LAST_SEEN_INTERVAL_MS: '5000',
       RULES_TICK_MS: '60000',
       RULES_DEBOUNCE_MS: '5000',
+      RULES_MIN_INTERVAL_MS: '120000',
       MAIL_SEND_INTERVAL_S: '15',
       MQTT_MAX_CONNECTIONS: String(Math.max(20_000, o.connections + 1000)),
     },

@@ -115,6 +115,7 @@ export async function startStack(options: StackOptions): Promise<FaultStack> {
       INGEST_LAST_SEEN_INTERVAL_MS: '500',
       RULES_TICK_MS: '500',
       RULES_DEBOUNCE_MS: '200',
+      RULES_MIN_INTERVAL_MS: '1000',
       MAIL_SEND_INTERVAL_S: '0.5',
       MAIL_RETRY_FIRST_S: '0.5',
       MAIL_MAX_ATTEMPTS: '1000',

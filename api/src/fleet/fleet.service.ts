@@ -19,17 +19,64 @@ import {
 const HOUR_MS = 3600_000;
 /** Water use moves slowly; each process recomputes a tank's 7-day average every 10 minutes. */
 const USE_CACHE_MS = 10 * 60_000;
+/**
+ * A large fleet's overview is shared for this long between callers who see the same sites and
+ * ask for the same page (one company's admins and technicians; each owner alone). Ranking
+ * thousands of sites costs PostgreSQL about a third of a second; fifty people with the board
+ * open would otherwise keep both cores of a small server busy and starve ingest (the
+ * 10,000-gateway load run showed PUBACKs stalling). Live updates still arrive by the event
+ * stream; a refetch sees data at most this old.
+ */
+const SHARED_MS = 1000;
+/** Fleets smaller than this are computed for every request (cheap, and always current). */
+const SHARED_FROM_SITES = 500;
 
 @Injectable()
 export class FleetService {
   private readonly useCache = new Map<number, { dropPerDay: number | null; at: number }>();
+  /** Overviews in progress or recently made, by scope and page (see SHARED_MS). */
+  private readonly shared = new Map<string, { answer: Promise<FleetResponse>; at: number }>();
+  /** Scopes whose last overview counted SHARED_FROM_SITES sites or more. */
+  private readonly largeScopes = new Set<string>();
 
   constructor(private readonly fleet: FleetRepository) {}
 
-  async overview(
+  /**
+   * The overview for the caller. For a large fleet (as its last answer showed), identical
+   * requests share one computation, and its answer is reused for SHARED_MS.
+   */
+  overview(user: SessionUser, page: { limit: number; offset: number }): Promise<FleetResponse> {
+    const scope = user.role === 'owner' ? `owner:${user.id}` : `company:${user.companyId}`;
+    const now = Date.now();
+    if (!this.largeScopes.has(scope)) return this.computeAndNote(scope, user, page, now);
+    const key = `${scope}|${page.limit}|${page.offset}`;
+    const hit = this.shared.get(key);
+    if (hit && now - hit.at < SHARED_MS) return hit.answer;
+    for (const [k, v] of this.shared) if (now - v.at >= SHARED_MS) this.shared.delete(k);
+    const answer = this.computeAndNote(scope, user, page, now);
+    this.shared.set(key, { answer, at: now });
+    answer.catch(() => {
+      if (this.shared.get(key)?.answer === answer) this.shared.delete(key);
+    });
+    return answer;
+  }
+
+  private async computeAndNote(
+    scope: string,
     user: SessionUser,
     page: { limit: number; offset: number },
-    now = new Date(),
+    now: number,
+  ): Promise<FleetResponse> {
+    const answer = await this.compute(user, page, new Date(now));
+    if (answer.page.total >= SHARED_FROM_SITES) this.largeScopes.add(scope);
+    else this.largeScopes.delete(scope);
+    return answer;
+  }
+
+  private async compute(
+    user: SessionUser,
+    page: { limit: number; offset: number },
+    now: Date,
   ): Promise<FleetResponse> {
     const sparkStart = Math.floor(now.getTime() / HOUR_MS) * HOUR_MS - 23 * HOUR_MS;
     const { rows: sites, counts: rankCounts } = await this.fleet.sites(user, page);

@@ -5,7 +5,7 @@
  * absorption) is not a fault.
  */
 import { measurementName } from '../telemetry/measurements.js';
-import { clearSkyPvWatts } from '../sun/pv-output.js';
+import { clearSkyPvWattsOnGrid } from '../sun/pv-output.js';
 import type { Sample } from '../series.js';
 import { sampleAtOrBefore } from '../series.js';
 import type { RuleDecision, RuleInput } from './types.js';
@@ -59,16 +59,11 @@ export function evaluateNoCharge(
   const p = ruleParamsFor('no_charge', input.site, overrides);
   const rated = arrays.reduce((sum, a) => sum + a.ratedWatts, 0);
   const lookback = Math.max(p.actAfterSeconds, p.holdSeconds);
+  // On a 5-minute grid: once per sample, the solar position dominated a busy fleet's CPU.
+  const expected = clearSkyPvWattsOnGrid(arrays, input.site.location);
   const points: Point[] = measuredPower(input)
     .filter((s) => s.t >= input.nowT - lookback && s.t <= input.nowT)
-    .map((s) => ({
-      t: s.t,
-      measuredWatts: s.v,
-      expectedWatts: arrays.reduce(
-        (sum, a) => sum + clearSkyPvWatts(a, s.t, input.site.location),
-        0,
-      ),
-    }))
+    .map((s) => ({ t: s.t, measuredWatts: s.v, expectedWatts: expected(s.t) }))
     .filter((pt) => pt.expectedWatts >= p.minExpectedShareOfRated * rated);
   const stage = stringSeries(input, 'controller/stage');
   const latestStage = stage[stage.length - 1];

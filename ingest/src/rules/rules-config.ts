@@ -3,6 +3,11 @@ import { z } from 'zod';
 const rulesEnv = z.object({
   /** Quiet time after a site's data commit before its rules run (coalesces backfills), ms. */
   RULES_DEBOUNCE_MS: z.coerce.number().int().min(0).max(600_000).default(5_000),
+  /**
+   * A site's data rules run at most this often however often it reports, ms. Each run reads a
+   * day of the site's raw readings, so this bounds the rules' load by the number of sites.
+   */
+  RULES_MIN_INTERVAL_MS: z.coerce.number().int().min(0).max(3_600_000).default(120_000),
   /** How often the time-based rules run (gateway silent, overnight sag at dawn …), ms. */
   RULES_TICK_MS: z.coerce.number().int().min(100).max(3_600_000).default(60_000),
   /** A site without new data still gets a full evaluation this often, ms. */
@@ -27,6 +32,7 @@ const rulesEnv = z.object({
 /** Settings of the rules module. */
 export interface RulesConfig {
   debounceMs: number;
+  minIntervalMs: number;
   tickMs: number;
   fullEveryMs: number;
   reopenWithinSeconds: number;
@@ -44,6 +50,7 @@ export function readRulesConfig(env: NodeJS.ProcessEnv = process.env): RulesConf
   const e = parsed.data;
   return {
     debounceMs: e.RULES_DEBOUNCE_MS,
+    minIntervalMs: e.RULES_MIN_INTERVAL_MS,
     tickMs: e.RULES_TICK_MS,
     fullEveryMs: e.RULES_FULL_EVERY_MS,
     reopenWithinSeconds: e.RULES_REOPEN_WITHIN_H * 3600,

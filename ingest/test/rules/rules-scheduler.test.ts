@@ -19,6 +19,8 @@ let rules: RulesApp;
 let busy: TestSite;
 let quiet: TestSite;
 let quietClient: MqttClient;
+/** Evaluations that included the data rules, per site and when. */
+const dataRuns: { siteId: string; at: number }[] = [];
 
 beforeAll(async () => {
   catcher = await startMailCatcher();
@@ -26,8 +28,13 @@ beforeAll(async () => {
   // site is always waiting for an evaluation: the scheduler is never idle.
   rules = await startRulesApp(database.url, catcher, {
     clock,
-    rules: { tickMs: 150, debounceMs: 40, concurrency: 2 },
+    rules: { tickMs: 150, debounceMs: 40, minIntervalMs: 300, concurrency: 2 },
   });
+  const evaluate = rules.evaluation.evaluate.bind(rules.evaluation);
+  rules.evaluation.evaluate = (siteId, kinds) => {
+    if (kinds.includes('dry_run')) dataRuns.push({ siteId, at: Date.now() });
+    return evaluate(siteId, kinds);
+  };
   const company = await createCompany(database.db);
   busy = await createSite(database.db, company.id, { name: 'Busy homestead' });
   quiet = await createSite(database.db, company.id, { name: 'Homestead that goes quiet' });
@@ -82,5 +89,18 @@ describe('the rules scheduler', () => {
     } finally {
       clearInterval(keepBusy);
     }
+  });
+
+  it("runs a site's data rules at most once per minimum interval, however often it reports", async () => {
+    const from = Date.now();
+    const keepBusy = setInterval(() => rules.scheduler.dataArrived(busy.id), 5);
+    await new Promise((r) => setTimeout(r, 1600));
+    clearInterval(keepBusy);
+    const runs = dataRuns.filter((r) => r.siteId === busy.id && r.at >= from).map((r) => r.at);
+    // 320 reports in 1.6 s; with a 300 ms minimum interval at most 6 runs (one may be due at once).
+    expect(runs.length).toBeGreaterThanOrEqual(2);
+    expect(runs.length).toBeLessThanOrEqual(7);
+    for (let i = 1; i < runs.length; i++)
+      expect(runs[i]! - runs[i - 1]!).toBeGreaterThanOrEqual(250);
   });
 });

@@ -71,6 +71,7 @@ export async function startRulesApp(
   };
   const rules: RulesConfig = {
     debounceMs: 30,
+    minIntervalMs: 0,
     tickMs: 3_600_000,
     fullEveryMs: 3_600_000,
     reopenWithinSeconds: 12 * 3600,
