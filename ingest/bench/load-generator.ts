@@ -145,7 +145,9 @@ while (fleet.some((g) => g.inflight > 0) && Date.now() < drainUntil) {
 }
 const ackedTotal = acked.length;
 writeFileSync(options.ackedFile, acked.join('\n') + '\n');
-await Promise.all(fleet.map((g) => new Promise<void>((r) => g.client.end(false, {}, () => r()))));
+// Forced: a gateway whose connection was refused (queue full) and is not back yet would otherwise
+// wait for ever to deliver its unacknowledged packs; what was acknowledged is already written.
+await Promise.all(fleet.map((g) => new Promise<void>((r) => g.client.end(true, {}, () => r()))));
 
 latencies.sort((a, b) => a - b);
 const pct = (p: number) =>
