@@ -47,13 +47,6 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
   private readonly lastDataRun = new Map<string, number>();
   /** Per site: the dawn (epoch s) of the last night judged for overnight sag. */
   private readonly judgedDawn = new Map<string, number>();
-  /**
-   * Per site: before this instant (epoch s) there is no new night to judge, so the tick skips
-   * the sunrise and sunset computation. Without it every tick ran the solar position algorithm
-   * several times for every site: at 10,000 sites that held the event loop for tens of seconds
-   * and no PUBACK went out meanwhile (found by the 10,000-gateway load run, issue 9).
-   */
-  private readonly overnightNotBefore = new Map<string, { from: number; until: number }>();
   private timer: NodeJS.Timeout | undefined;
   private ticking: Promise<void> | null = null;
   private stopped = false;
@@ -182,39 +175,23 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
     await this.summaries.run();
   }
 
-  /** Whether the site's last complete night has ended (plus grace) and was not judged yet. */
+  /**
+   * Whether the site's last complete night has ended (plus grace) and was not judged yet. The
+   * night's end comes from a quick sunrise (approximate-dawn.ts, microseconds): the full SPA
+   * here cost ~50 ms a site, which at 10,000 sites held the event loop for minutes per tick.
+   */
   private async overnightDue(
     siteId: string,
-    config: { timeZone: string; location: { latitudeDegrees: number; longitudeDegrees: number } },
+    config: { location: { latitudeDegrees: number; longitudeDegrees: number } },
     nowT: number,
   ): Promise<boolean> {
-    const skip = this.overnightNotBefore.get(siteId);
-    // (A clock set back, as tests do, is before `from`: compute again.)
-    if (skip && nowT >= skip.from && nowT < skip.until) return false;
-    const notBefore = (until: number) => this.overnightNotBefore.set(siteId, { from: nowT, until });
     const judged = this.judgedDawn.get(siteId);
     // The next night cannot end sooner than ~20 h after the last dawn judged.
-    if (judged !== undefined && nowT < judged + 20 * 3600) {
-      notBefore(judged + 20 * 3600);
-      return false;
-    }
-    // When the last night ended (approximately: see approximate-dawn.ts; the full SPA here cost
-    // ~50 ms a site, minutes of blocked event loop per tick at 10,000 sites).
+    if (judged !== undefined && nowT < judged + 20 * 3600) return false;
     const dawn = approximateLastSunrise(nowT, config.location);
-    if (dawn === null) {
-      // Polar day or night: look again in an hour.
-      notBefore(nowT + 3600);
-      return false;
-    }
-    if (nowT < dawn + this.config.dawnGraceSeconds) {
-      notBefore(dawn + this.config.dawnGraceSeconds);
-      return false;
-    }
-    if (judged !== undefined && judged >= dawn - DAWN_SLACK_S) {
-      // Judged already; the next night ends at the earliest ~20 h after this dawn.
-      notBefore(dawn + 20 * 3600);
-      return false;
-    }
+    // Polar day or night, or the night ended too recently (late data may still come).
+    if (dawn === null || nowT < dawn + this.config.dawnGraceSeconds) return false;
+    if (judged !== undefined && judged >= dawn - DAWN_SLACK_S) return false;
     this.judgedDawn.set(siteId, dawn);
     // After a restart: a history event since that dawn means the night was judged already.
     return !(await this.alerts.anyEventSince(
