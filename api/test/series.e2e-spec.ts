@@ -59,7 +59,9 @@ const day = 86400_000;
 describe('series resolution', () => {
   it.each([
     ['1 day', 1, 'raw', 300],
-    ['7 days', 7, 'minute', 600],
+    ['7 days', 7, 'ten_minute', 600],
+    ['14 days', 14, 'ten_minute', 1200],
+    ['28 days', 28, 'ten_minute', 1800],
     ['30 days', 30, 'hour', 3600],
     ['1 year', 365, 'six_hour', 21600],
     ['3 years', 3 * 365, 'day', 86400],
@@ -75,12 +77,20 @@ describe('series resolution', () => {
       const [s] = body.series;
       expect(s.t.length).toBeLessThanOrEqual(2000);
       // A bucket is in the range when its start is: compare against the raw rows of those buckets.
-      const alignS = { raw: 1, minute: 60, hour: 3600, six_hour: 21600, day: 86400 }[
-        source as string
-      ]!;
+      const alignS = {
+        raw: 1,
+        minute: 60,
+        ten_minute: 600,
+        hour: 3600,
+        six_hour: 21600,
+        day: 86400,
+      }[source as string]!;
       const ceil = (d: Date) => new Date(Math.ceil(d.getTime() / 1000 / alignS) * alignS * 1000);
       const expected = expectedFromRaw(ceil(from), ceil(to), stepS);
       expect(s.t).toEqual(expected.t);
+      // Rows read are the source's own rows (a 7-day chart: 1,008 ten-minute buckets, not 10,080
+      // minute buckets).
+      expect(body.rowsRead).toBe(expectedFromRaw(ceil(from), ceil(to), alignS).t.length);
       for (let i = 0; i < expected.t.length; i++) {
         expect(s.mean[i]).toBeCloseTo(expected.mean[i]!, 9);
         expect(s.min[i]).toBeCloseTo(expected.min[i]!, 9);

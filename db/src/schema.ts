@@ -438,6 +438,22 @@ export interface Tanks {
   width_m: number | null;
 }
 
+export interface TenMinuteBuckets {
+  bucket_start: Timestamp;
+  channel_id: number;
+  first_time: Timestamp;
+  first_value: number;
+  last_time: Timestamp;
+  last_value: number;
+  max: number;
+  min: number;
+  on_seconds: number | null;
+  sample_count: number;
+  site_id: string;
+  starts: number | null;
+  sum: number;
+}
+
 export interface Users {
   active: Generated<boolean>;
   company_id: string;
@@ -502,6 +518,7 @@ export interface DB {
   sites: Sites;
   six_hour_buckets: SixHourBuckets;
   tanks: Tanks;
+  ten_minute_buckets: TenMinuteBuckets;
   users: Users;
   wells: Wells;
 }

@@ -42,7 +42,8 @@ function pack(offsets: number[]): string {
 }
 
 async function bucket(
-  table: 'minute_buckets' | 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
+  table:
+    'minute_buckets' | 'ten_minute_buckets' | 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
   name: string,
   start: Date,
 ) {
@@ -142,6 +143,10 @@ describe('late data (a pack six hours old)', () => {
       starts: null,
     });
 
+    // Both packs fall in the ten-minute period starting at t0: recomputed whole from its minutes.
+    const tenMinutes = await bucket('ten_minute_buckets', 'pump/well/running', new Date(t0 * 1000));
+    expect(tenMinutes).toMatchObject({ sample_count: 13, sum: 11, on_seconds: 330, starts: 1 });
+
     // Day buckets follow the site's local day (America/Denver).
     const { rows } = await sql<{ day: Date }>`
       select date_trunc('day', to_timestamp(${t0}), 'America/Denver') as day`.execute(database.db);
@@ -169,6 +174,7 @@ describe('late data (a pack six hours old)', () => {
   });
 
   it.each([
+    ['ten_minute_buckets', '10 minutes'],
     ['hour_buckets', '1 hour'],
     ['six_hour_buckets', '6 hours'],
   ] as const)(
@@ -201,6 +207,7 @@ describe('late data (a pack six hours old)', () => {
     // Move the watermark back 7 hours: the next sweep rolls those minutes up as if they had
     // just closed (the on-time path), on top of the late-data recomputation done above.
     await sql`update rollup_state set watermark = to_timestamp(${t0 - HOUR})`.execute(database.db);
+    await sql`delete from ten_minute_buckets where site_id = ${site.siteId}`.execute(database.db);
     await sql`delete from hour_buckets where site_id = ${site.siteId}`.execute(database.db);
     await sql`delete from six_hour_buckets where site_id = ${site.siteId}`.execute(database.db);
     await sql`delete from day_buckets where site_id = ${site.siteId}`.execute(database.db);
@@ -208,6 +215,16 @@ describe('late data (a pack six hours old)', () => {
     expect(sweep.closed?.from).toEqual(new Date((t0 - HOUR) * 1000));
     const hour = await bucket('hour_buckets', 'pump/well/running', new Date((t0 - 600) * 1000));
     expect(hour).toMatchObject({ sample_count: 13, sum: 11, on_seconds: 330, starts: 1 });
+    // t0 is ten minutes past the hour: the whole run lies in the ten-minute period starting at t0.
+    const tenMinutes = await bucket('ten_minute_buckets', 'pump/well/running', new Date(t0 * 1000));
+    expect(tenMinutes).toMatchObject({
+      sample_count: 13,
+      sum: 11,
+      on_seconds: 330,
+      starts: 1,
+      first_time: new Date(t0 * 1000),
+      last_time: new Date((t0 + 360) * 1000),
+    });
     const { rows: periods } = await sql<{ start: Date }>`
       select date_bin('6 hours', to_timestamp(${t0}), timestamptz '2000-01-01 00:00:00+00') as start`.execute(
       database.db,

@@ -99,14 +99,16 @@ const NEAR = (a: string, b: string) =>
   sql.raw(`(${a} is not distinct from ${b} or abs(${a} - ${b}) <= 1e-6 * greatest(1, abs(${a})))`);
 
 /**
- * Minute, hour, six-hour and day buckets of the given sites against a recomputation from every raw row
- * (one window over each channel's whole history, not the sweep's incremental passes). Only time
- * before the roll-up's watermark counts: later minutes are not rolled up yet by design.
+ * Minute, ten-minute, hour, six-hour and day buckets of the given sites against a recomputation
+ * from every raw row (one window over each channel's whole history, not the sweep's incremental
+ * passes). Only time before the roll-up's watermark counts: later minutes are not rolled up yet
+ * by design.
  */
 export async function bucketCheck(db: Database, siteIds: readonly string[]): Promise<DerivedCheck> {
   const out: DerivedCheck = { compared: 0, mismatched: 0, examples: [] };
   const periods = {
     minute_buckets: sql`date_trunc('minute', x.time, 'UTC')`,
+    ten_minute_buckets: sql`date_bin('10 minutes', x.time, timestamptz '2000-01-01 00:00:00+00')`,
     hour_buckets: sql`date_trunc('hour', x.time, 'UTC')`,
     six_hour_buckets: sql`date_bin('6 hours', x.time, timestamptz '2000-01-01 00:00:00+00')`,
     day_buckets: sql`date_trunc('day', x.time, s.time_zone)`,

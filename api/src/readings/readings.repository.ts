@@ -27,12 +27,19 @@ export interface SeriesRow {
 
 const BUCKET_TABLE = {
   minute: 'minute_buckets',
+  ten_minute: 'ten_minute_buckets',
   hour: 'hour_buckets',
   six_hour: 'six_hour_buckets',
   day: 'day_buckets',
 } as const;
 
-const BUCKET_SECONDS = { minute: 60, hour: 3600, six_hour: 21600, day: 86400 } as const;
+const BUCKET_SECONDS = {
+  minute: 60,
+  ten_minute: 600,
+  hour: 3600,
+  six_hour: 21600,
+  day: 86400,
+} as const;
 
 /** Telemetry reads: channels, series from raw readings or buckets, and streamed exports. */
 @Injectable()

@@ -1,5 +1,5 @@
 /** Where a series' points come from: raw readings or one of ingest's bucket tables. */
-export type SeriesSource = 'raw' | 'minute' | 'hour' | 'six_hour' | 'day';
+export type SeriesSource = 'raw' | 'minute' | 'ten_minute' | 'hour' | 'six_hour' | 'day';
 
 export interface SeriesResolution {
   source: SeriesSource;
@@ -10,19 +10,24 @@ export interface SeriesResolution {
 
 const SOURCE_SECONDS: Record<Exclude<SeriesSource, 'raw'>, number> = {
   minute: 60,
+  ten_minute: 600,
   hour: 3600,
   six_hour: 21600,
   day: 86400,
 };
 
-/** Point widths, finest first, each read from the coarsest table that divides it. */
+/**
+ * Point widths, finest first, each read from the coarsest table that divides it. Every width
+ * from 10 minutes up is a whole number of ten-minute buckets, so no range regroups more than
+ * about 7,000 minute buckets per channel (at most 4.9 days: longer ones read ten-minute buckets).
+ */
 const LADDER: [number, Exclude<SeriesSource, 'raw'>][] = [
   [60, 'minute'],
   [120, 'minute'],
   [300, 'minute'],
-  [600, 'minute'],
-  [900, 'minute'],
-  [1800, 'minute'],
+  [600, 'ten_minute'],
+  [1200, 'ten_minute'],
+  [1800, 'ten_minute'],
   [3600, 'hour'],
   [7200, 'hour'],
   [10800, 'hour'],
@@ -54,7 +59,7 @@ export function pickResolution(spanSeconds: number, rawIntervalSeconds: number):
     chosen = [weeks * 7 * 86400, 'day'];
   }
   const [step, source] = chosen;
-  for (const coarser of ['hour', 'six_hour', 'day'] as const) {
+  for (const coarser of ['ten_minute', 'hour', 'six_hour', 'day'] as const) {
     const native = SOURCE_SECONDS[coarser];
     if (
       native > SOURCE_SECONDS[source] &&

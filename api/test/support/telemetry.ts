@@ -49,13 +49,14 @@ export function rawValue(i: number, base = 25, amplitude = 2): number {
 }
 
 /**
- * Rolls raw readings up into minute, hour, six-hour and day buckets (UTC) the way ingest's roll-up
- * defines them: count, sum, min, max, first and last value with their times.
+ * Rolls raw readings up into minute, ten-minute, hour, six-hour and day buckets (UTC) the way
+ * ingest's roll-up defines them: count, sum, min, max, first and last value with their times.
  */
 export async function rollUpAll(db: Database, siteId: string, from: Date, to: Date): Promise<void> {
   await ensureTimePartitions(db, 'minute_buckets', from, to);
   for (const [table, width] of [
     ['minute_buckets', '1 minute'],
+    ['ten_minute_buckets', '10 minutes'],
     ['hour_buckets', '1 hour'],
     ['six_hour_buckets', '6 hours'],
     ['day_buckets', '1 day'],

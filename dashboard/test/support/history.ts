@@ -1,8 +1,9 @@
 /**
  * Telemetry history for browser tests and the benchmark: the simulator's physics
  * (SiteSimulation) run over the demo sites, written to the same tables ingest fills
- * (channels, readings, minute/hour/day buckets, gateways' last-seen). It skips MQTT so a few
- * days of history take seconds; the live-update test goes through the real ingest instead.
+ * (channels, readings, minute/ten-minute/hour/six-hour/day buckets, gateways' last-seen). It
+ * skips MQTT so a few days of history take seconds; the live-update test goes through the real
+ * ingest instead.
  */
 import { ensureTimePartitions, type Database } from '@wellkept/db';
 import { parseMeasurementName, measurementSpec } from '@wellkept/core';
@@ -124,7 +125,7 @@ export async function seedHistory(
   return { rows: total };
 }
 
-/** Minute, hour and day buckets the way ingest's roll-up defines them (switches: on-seconds). */
+/** Buckets the way ingest's roll-up defines them (switches: on-seconds). */
 async function rollUp(db: Database, siteId: string, from: Date, to: Date): Promise<void> {
   for (const unit of ['minute', 'hour', 'day'] as const) {
     await sql`
@@ -138,21 +139,27 @@ async function rollUp(db: Database, siteId: string, from: Date, to: Date): Promi
        group by 1, 2, 3
       on conflict do nothing`.execute(db);
   }
-  // Six-hour buckets (UTC quarter-days) feed the longest charts; skipped on a schema without them.
-  const { rows } = await sql<{ present: boolean }>`
-    select to_regclass('six_hour_buckets') is not null as present`.execute(db);
-  if (!rows[0]?.present) return;
-  await sql`
-    insert into six_hour_buckets (site_id, channel_id, bucket_start, sample_count, sum, min, max,
-                                  first_value, first_time, last_value, last_time)
-    select site_id, channel_id, date_bin('6 hours', time, timestamptz '2000-01-01 00:00:00+00'),
-           count(*), sum(value), min(value), max(value),
-           (array_agg(value order by time))[1], min(time),
-           (array_agg(value order by time desc))[1], max(time)
-      from readings
-     where site_id = ${siteId} and time >= ${from} and time < ${to} and value is not null
-     group by 1, 2, 3
-    on conflict do nothing`.execute(db);
+  // Ten-minute buckets feed week-long charts and six-hour buckets (UTC quarter-days) the longest
+  // ones, both on the UTC epoch grid; each is skipped on a schema without it.
+  for (const [table, width] of [
+    ['ten_minute_buckets', '10 minutes'],
+    ['six_hour_buckets', '6 hours'],
+  ] as const) {
+    const { rows } = await sql<{ present: boolean }>`
+      select to_regclass(${table}) is not null as present`.execute(db);
+    if (!rows[0]?.present) continue;
+    await sql`
+      insert into ${sql.table(table)} (site_id, channel_id, bucket_start, sample_count, sum, min, max,
+                                       first_value, first_time, last_value, last_time)
+      select site_id, channel_id, date_bin(${width}::interval, time, timestamptz '2000-01-01 00:00:00+00'),
+             count(*), sum(value), min(value), max(value),
+             (array_agg(value order by time))[1], min(time),
+             (array_agg(value order by time desc))[1], max(time)
+        from readings
+       where site_id = ${siteId} and time >= ${from} and time < ${to} and value is not null
+       group by 1, 2, 3
+      on conflict do nothing`.execute(db);
+  }
 }
 
 /**

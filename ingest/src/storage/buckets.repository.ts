@@ -45,9 +45,9 @@ const OVERWRITE = sql`
   last_value = excluded.last_value, last_time = excluded.last_time,
   on_seconds = excluded.on_seconds, starts = excluded.starts`;
 
-/** Adds freshly closed minutes to an hour or day bucket that may already hold earlier ones. */
+/** Adds freshly closed minutes to a longer bucket that may already hold earlier ones. */
 function accumulate(
-  table: 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
+  table: 'ten_minute_buckets' | 'hour_buckets' | 'six_hour_buckets' | 'day_buckets',
 ): RawBuilder<unknown> {
   const t = sql.table(table);
   return sql`
@@ -68,16 +68,20 @@ function accumulate(
 /** The site's local day that holds a bucket (day buckets follow the site's time zone). */
 const LOCAL_DAY = sql`date_trunc('day', m.bucket_start, s.time_zone)`;
 
+/** The UTC ten minutes (aligned to the epoch: :00, :10, ... :50) that hold an instant. */
+const tenMinutesOf = (t: RawBuilder<unknown>) =>
+  sql`date_bin('10 minutes', ${t}, timestamptz '2000-01-01 00:00:00+00')`;
+
 /** The UTC quarter-day (00, 06, 12, 18 h) that holds an instant. */
 const sixHourOf = (t: RawBuilder<unknown>) =>
   sql`date_bin('6 hours', ${t}, timestamptz '2000-01-01 00:00:00+00')`;
 
 /**
- * SQL of the bucket roll-up. Minute buckets are computed from raw readings; hour buckets (UTC
- * hours), six-hour buckets (UTC quarter-days, for long charts) and day buckets (local days of
- * the site) from minute buckets, either by adding newly
- * closed minutes (`accumulate`) or, for periods that received late rows, by recomputing them
- * whole from their minutes. String channels (controller stage) have no numeric buckets.
+ * SQL of the bucket roll-up. Minute buckets are computed from raw readings; ten-minute buckets
+ * (UTC, for week-long charts), hour buckets (UTC hours), six-hour buckets (UTC quarter-days, for
+ * long charts) and day buckets (local days of the site) from minute buckets, either by adding
+ * newly closed minutes (`accumulate`) or, for periods that received late rows, by recomputing
+ * them whole from their minutes. String channels (controller stage) have no numeric buckets.
  */
 @Injectable()
 export class BucketsRepository {
@@ -99,8 +103,17 @@ export class BucketsRepository {
     return Number(result.numAffectedRows ?? 0);
   }
 
-  /** Adds the minute buckets of [from, to) to their hour, six-hour and day buckets. */
+  /** Adds the minute buckets of [from, to) to their ten-minute, hour, six-hour and day buckets. */
   async accumulateMinutes(trx: Tx, from: Date, to: Date): Promise<void> {
+    await sql`
+      insert into ten_minute_buckets as ten_minute_buckets (${BUCKET_COLUMNS})
+      select m.site_id, m.channel_id, ${tenMinutesOf(sql`m.bucket_start`)}, ${MERGED_AGGREGATES}
+      from minute_buckets m
+      where m.bucket_start >= ${from} and m.bucket_start < ${to}
+      group by 1, 2, 3
+      on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('ten_minute_buckets')}`.execute(
+      trx,
+    );
     await sql`
       insert into hour_buckets as hour_buckets (${BUCKET_COLUMNS})
       select m.site_id, m.channel_id, date_trunc('hour', m.bucket_start, 'UTC'), ${MERGED_AGGREGATES}
@@ -131,8 +144,8 @@ export class BucketsRepository {
   }
 
   /**
-   * Recomputes the given (site, minute) buckets from raw rows, then their hours, six-hour
-   * periods and days whole.
+   * Recomputes the given (site, minute) buckets from raw rows, then their ten-minute periods,
+   * hours, six-hour periods and days whole.
    */
   async recomputeMinutes(
     trx: Tx,
@@ -156,6 +169,17 @@ export class BucketsRepository {
       ) x
       where x.time >= x.minute
       group by x.site_id, x.channel_id, x.minute
+      on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
+
+    await sql`
+      with touched as (
+        select distinct p.site_id, ${tenMinutesOf(sql`p.minute`)} as period
+        from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
+      insert into ten_minute_buckets (${BUCKET_COLUMNS})
+      select m.site_id, m.channel_id, t.period, ${MERGED_AGGREGATES}
+      from touched t join minute_buckets m on m.site_id = t.site_id
+        and m.bucket_start >= t.period and m.bucket_start < t.period + interval '10 minutes'
+      group by m.site_id, m.channel_id, t.period
       on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
 
     await sql`

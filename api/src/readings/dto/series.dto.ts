@@ -61,7 +61,7 @@ export const seriesResponse = z.object({
   from: z.date(),
   to: z.date(),
   resolution: z.object({
-    source: z.enum(['raw', 'minute', 'hour', 'six_hour', 'day']),
+    source: z.enum(['raw', 'minute', 'ten_minute', 'hour', 'six_hour', 'day']),
     stepSeconds: z.number(),
     label: z.string(),
   }),

@@ -7,7 +7,7 @@ export interface SeriesResponse {
   from: string;
   to: string;
   resolution: {
-    source: 'raw' | 'minute' | 'hour' | 'six_hour' | 'day';
+    source: 'raw' | 'minute' | 'ten_minute' | 'hour' | 'six_hour' | 'day';
     stepSeconds: number;
     label: string;
   };
