@@ -277,7 +277,16 @@ try {
   })();
   rmSync(ackedFile, { force: true });
 
-  // (d) Ingest at half the committed rate.
+  // (d) Ingest at half the committed rate, once the packs still queued from (c) are committed:
+  // otherwise (d) would measure draining (c)'s backlog, not a steady half load.
+  const drainStarted = performance.now();
+  for (;;) {
+    const text = await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text();
+    const queued = Number(/^wellkept_ingest_queue_records ([0-9.e+-]+)$/m.exec(text)?.[1] ?? NaN);
+    if (queued === 0 || performance.now() - drainStarted > 120_000) break;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  log(`queue drained ${((performance.now() - drainStarted) / 1000).toFixed(1)} s after (c)`);
   const half = Math.max(1, Math.round(saturated.ackedPerSecond / 2));
   log(`ingest at half load: ${half} packs/s`);
   const halfLoad = await runGenerator(`mqtt://127.0.0.1:${mqttPort}`, half, `${work}-half.csv`);

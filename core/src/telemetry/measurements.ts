@@ -197,8 +197,25 @@ export interface ParsedMeasurementName {
   key: string | null;
 }
 
+/**
+ * Names already parsed. Every pack repeats the same few names, and parsing (split, template,
+ * lookup) was the largest cost of validating one in ingest's profile. Bounded: a gateway sending
+ * ever new names only makes the cache start over.
+ */
+const PARSED_NAMES = new Map<string, Readonly<ParsedMeasurementName> | null>();
+const PARSED_NAMES_LIMIT = 4096;
+
 /** Parses a measurement name such as 'pump/well/current'; null when it is not in the table. */
-export function parseMeasurementName(name: string): ParsedMeasurementName | null {
+export function parseMeasurementName(name: string): Readonly<ParsedMeasurementName> | null {
+  const cached = PARSED_NAMES.get(name);
+  if (cached !== undefined) return cached;
+  const parsed = parseUncached(name);
+  if (PARSED_NAMES.size >= PARSED_NAMES_LIMIT) PARSED_NAMES.clear();
+  PARSED_NAMES.set(name, parsed === null ? null : Object.freeze(parsed));
+  return parsed;
+}
+
+function parseUncached(name: string): ParsedMeasurementName | null {
   const parts = name.split('/');
   const [first, second, third] = parts;
   if (parts.length === 2) {

@@ -155,13 +155,24 @@ function limitsWith(partial: Partial<SenmlLimits> | undefined): SenmlLimits {
   return limits;
 }
 
+/** One decoder for every pack: without `stream` a decode call keeps no state between calls. */
+const UTF8 = new TextDecoder('utf-8', { fatal: true });
+const UTF8_ENCODER = new TextEncoder();
+
 /** Turns text or bytes into a parsed value, or a pack-level reason. */
 function parsePackInput(
   input: unknown,
   limits: SenmlLimits,
 ): { ok: true; value: unknown } | { ok: false; reason: string } {
-  let text: string | null = null;
+  let text: string;
   if (typeof input === 'string') {
+    const bytes = UTF8_ENCODER.encode(input).byteLength;
+    if (bytes > limits.maxPackBytes) {
+      return {
+        ok: false,
+        reason: `pack is ${bytes} bytes, more than the limit of ${limits.maxPackBytes}`,
+      };
+    }
     text = input;
   } else if (input instanceof Uint8Array) {
     if (input.byteLength > limits.maxPackBytes) {
@@ -171,18 +182,12 @@ function parsePackInput(
       };
     }
     try {
-      text = new TextDecoder('utf-8', { fatal: true }).decode(input);
+      text = UTF8.decode(input);
     } catch {
       return { ok: false, reason: 'pack is not valid UTF-8 text' };
     }
-  }
-  if (text === null) return { ok: true, value: input };
-  const bytes = new TextEncoder().encode(text).byteLength;
-  if (bytes > limits.maxPackBytes) {
-    return {
-      ok: false,
-      reason: `pack is ${bytes} bytes, more than the limit of ${limits.maxPackBytes}`,
-    };
+  } else {
+    return { ok: true, value: input };
   }
   try {
     return { ok: true, value: JSON.parse(text) as unknown };
@@ -197,6 +202,48 @@ interface BaseField<T> {
   brokenAt: number | null;
 }
 
+/** The fields that carry a record's value, besides the sum `s` (RFC 8428 §4.2). */
+const VALUE_FIELDS = ['v', 'vs', 'vb', 'vd'] as const;
+
+/** Applies a base name or unit a record sets (RFC 8428 §4.5), or notes why it cannot. */
+function setBaseString(
+  r: Record<string, unknown>,
+  key: 'bn' | 'bu',
+  field: BaseField<string> | BaseField<string | undefined>,
+  index: number,
+  limits: SenmlLimits,
+  problems: string[],
+): void {
+  if (!own(r, key)) return;
+  const value = r[key];
+  if (typeof value === 'string' && value.length <= limits.maxNameLength) {
+    field.value = value;
+    field.brokenAt = null;
+  } else {
+    field.brokenAt = index;
+    problems.push(`${key} must be a string of at most ${limits.maxNameLength} characters`);
+  }
+}
+
+/** Applies a base time, value or sum a record sets, or notes why it cannot. */
+function setBaseNumber(
+  r: Record<string, unknown>,
+  key: 'bt' | 'bv' | 'bs',
+  field: BaseField<number>,
+  index: number,
+  problems: string[],
+): void {
+  if (!own(r, key)) return;
+  const value = r[key];
+  if (typeof value === 'number' && Number.isFinite(value)) {
+    field.value = value;
+    field.brokenAt = null;
+  } else {
+    field.brokenAt = index;
+    problems.push(`${key} must be a finite number, got ${describeValue(value)}`);
+  }
+}
+
 /**
  * Resolves a SenML JSON pack (RFC 8428): applies base name, time, unit, value and sum to each
  * record, turns relative times (bt + t below 2^28, §4.5.3) into absolute ones from `nowSeconds`,
@@ -206,17 +253,20 @@ interface BaseField<T> {
  * or uses a must-understand field (name ending in '_', §4.4) this code does not know.
  */
 export function resolveSenmlPack(input: unknown, options: SenmlResolveOptions): SenmlResolution {
+  const now = Number.isFinite(options.nowSeconds) ? options.nowSeconds : 0;
+  return resolveWithLimits(input, now, limitsWith(options.limits));
+}
+
+function resolveWithLimits(input: unknown, now: number, limits: SenmlLimits): SenmlResolution {
   try {
-    return resolveUnchecked(input, options);
+    return resolveUnchecked(input, now, limits);
   } catch (error) {
     // Nothing above should throw; this keeps the promise of never throwing if something does.
     return { ok: false, reason: `pack could not be read (${String(error)})` };
   }
 }
 
-function resolveUnchecked(input: unknown, options: SenmlResolveOptions): SenmlResolution {
-  const limits = limitsWith(options.limits);
-  const now = Number.isFinite(options.nowSeconds) ? options.nowSeconds : 0;
+function resolveUnchecked(input: unknown, now: number, limits: SenmlLimits): SenmlResolution {
   const parsed = parsePackInput(input, limits);
   if (!parsed.ok) return parsed;
   const pack = parsed.value;
@@ -262,43 +312,33 @@ function resolveUnchecked(input: unknown, options: SenmlResolveOptions): SenmlRe
   const baseValue: BaseField<number> = { value: 0, brokenAt: null };
   const baseSum: BaseField<number> = { value: 0, brokenAt: null };
 
+  const bases = [
+    [baseName, 'base name'],
+    [baseTime, 'base time'],
+    [baseUnit, 'base unit'],
+    [baseValue, 'base value'],
+    [baseSum, 'base sum'],
+  ] as const;
+
   const records: ResolvedSenmlRecord[] = [];
   const rejected: SenmlRecordRejection[] = [];
   let baseOnlyRecords = 0;
 
+  // Runs once per record of every pack ingest receives: no closures or arrays made per record
+  // beyond the list of problems (allocation showed up as garbage collection in ingest profiles).
   for (let index = 0; index < pack.length; index += 1) {
     const r = pack[index] as Record<string, unknown>;
     const problems: string[] = [];
 
-    const setString = (key: string, field: BaseField<string> | BaseField<string | undefined>) => {
-      if (!own(r, key)) return;
-      const value = r[key];
-      if (typeof value === 'string' && value.length <= limits.maxNameLength) {
-        field.value = value;
-        field.brokenAt = null;
-      } else {
-        field.brokenAt = index;
-        problems.push(`${key} must be a string of at most ${limits.maxNameLength} characters`);
-      }
-    };
-    const setNumber = (key: string, field: BaseField<number>) => {
-      if (!own(r, key)) return;
-      const value = r[key];
-      if (typeof value === 'number' && Number.isFinite(value)) {
-        field.value = value;
-        field.brokenAt = null;
-      } else {
-        field.brokenAt = index;
-        problems.push(`${key} must be a finite number, got ${describeValue(value)}`);
-      }
-    };
-    setString('bn', baseName);
-    setNumber('bt', baseTime);
-    setString('bu', baseUnit);
-    setNumber('bv', baseValue);
-    setNumber('bs', baseSum);
+    setBaseString(r, 'bn', baseName, index, limits, problems);
+    setBaseNumber(r, 'bt', baseTime, index, problems);
+    setBaseString(r, 'bu', baseUnit, index, limits, problems);
+    setBaseNumber(r, 'bv', baseValue, index, problems);
+    setBaseNumber(r, 'bs', baseSum, index, problems);
 
-    const hasValueField = ['v', 'vs', 'vb', 'vd', 's'].some((k) => own(r, k));
+    let valueFields = 0;
+    for (const k of VALUE_FIELDS) if (own(r, k)) valueFields += 1;
+    const hasValueField = valueFields > 0 || own(r, 's');
     if (!hasValueField && !own(r, 'n') && !own(r, 'u') && !own(r, 't') && problems.length === 0) {
       // A record that only sets base fields carries no measurement (RFC 8428 §5.1.7).
       const keys = Object.keys(r).filter((k) => KNOWN_FIELDS.has(k));
@@ -308,13 +348,7 @@ function resolveUnchecked(input: unknown, options: SenmlResolveOptions): SenmlRe
       }
     }
 
-    for (const [field, label] of [
-      [baseName, 'base name'],
-      [baseTime, 'base time'],
-      [baseUnit, 'base unit'],
-      [baseValue, 'base value'],
-      [baseSum, 'base sum'],
-    ] as const) {
+    for (const [field, label] of bases) {
       if (field.brokenAt !== null && field.brokenAt !== index) {
         problems.push(`the ${label} set in record ${field.brokenAt + 1} is invalid`);
       }
@@ -341,10 +375,11 @@ function resolveUnchecked(input: unknown, options: SenmlResolveOptions): SenmlRe
       else problems.push(`u must be a string, got ${describeValue(r.u)}`);
     }
 
-    const valueKeys = ['v', 'vs', 'vb', 'vd'].filter((k) => own(r, k));
-    if (valueKeys.length > 1)
-      problems.push(`record has more than one value (${valueKeys.join(', ')})`);
-    if (valueKeys.length === 0 && !own(r, 's'))
+    if (valueFields > 1) {
+      const present = VALUE_FIELDS.filter((k) => own(r, k));
+      problems.push(`record has more than one value (${present.join(', ')})`);
+    }
+    if (valueFields === 0 && !own(r, 's'))
       problems.push('record has no value (v, vs, vb, vd or s)');
 
     const resolved: ResolvedSenmlRecord = { index, n: name ?? '', t: 0 };
@@ -496,7 +531,7 @@ export function validateTelemetryPack(
   const limits = limitsWith(context.limits);
   const now = Number.isFinite(context.nowSeconds) ? context.nowSeconds : 0;
   const expectedGateway = context.gatewayId ?? null;
-  const resolution = resolveSenmlPack(input, { nowSeconds: now, limits });
+  const resolution = resolveWithLimits(input, now, limits);
   if (!resolution.ok) {
     return {
       packError: resolution.reason,
@@ -508,14 +543,33 @@ export function validateTelemetryPack(
     };
   }
   const readings: TelemetryReading[] = [];
-  const rejected: TelemetryRejection[] = [...resolution.rejected];
+  const rejected: TelemetryRejection[] = resolution.rejected;
   let gatewayId = expectedGateway;
-  const seen = new Map<string, number>();
+  // Readings kept so far, by time then name (the record each came from): records of a pack
+  // mostly share one time, so this is one small map per time and no key built per record.
+  const seen = new Map<number, Map<string, number>>();
+  // Records of a pack share one base name: split the name of the first record the long way,
+  // then take the measurement name of the others after the same prefix.
+  let prefix: string | null = null;
+  let prefixSplit: { gatewayId: string } | null = null;
 
   for (const record of resolution.records) {
     const reject = (name: string | null, reason: string) =>
       rejected.push({ index: record.index, name, reason });
-    const split = splitResolvedName(record.n);
+    let split: { gatewayId: string; measurementName: string } | null;
+    if (prefix !== null && prefixSplit !== null && record.n.startsWith(prefix)) {
+      split = {
+        gatewayId: prefixSplit.gatewayId,
+        measurementName: record.n.slice(prefix.length),
+      };
+    } else {
+      split = splitResolvedName(record.n);
+      if (split) {
+        // A valid gateway id has no ':', so the name's first ':' after the URN prefix ends it.
+        prefix = `${SENML_BASE_NAME_PREFIX}${split.gatewayId}:`;
+        prefixSplit = split;
+      }
+    }
     if (!split) {
       reject(
         record.n,
@@ -591,13 +645,14 @@ export function validateTelemetryPack(
       );
       continue;
     }
-    const identity = `${split.measurementName}@${record.t}`;
-    const earlier = seen.get(identity);
+    let atTime = seen.get(record.t);
+    const earlier = atTime?.get(split.measurementName);
     if (earlier !== undefined) {
       reject(label, `${label}: repeats record ${earlier + 1} (same name and time)`);
       continue;
     }
-    seen.set(identity, record.index);
+    if (!atTime) seen.set(record.t, (atTime = new Map()));
+    atTime.set(split.measurementName, record.index);
     readings.push({
       name: split.measurementName,
       pattern: parsed.pattern,

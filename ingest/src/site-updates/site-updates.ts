@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { EventEmitter2 } from '@nestjs/event-emitter';
-import { sql, type Kysely } from 'kysely';
+import { sql, type Kysely, type RawBuilder } from 'kysely';
 import type { DB } from '@wellkept/db';
 
 /** What changed at a site (the `what` of the `site_updates` contract). */
@@ -34,12 +34,18 @@ export class SiteUpdates {
   /** One NOTIFY per event, in one statement; call inside the transaction that writes. */
   async notifyInTransaction(trx: Kysely<DB>, updates: readonly SiteUpdatedEvent[]): Promise<void> {
     if (updates.length === 0) return;
+    await sql`select ${this.notifySelect(updates)}`.execute(trx);
+  }
+
+  /**
+   * The NOTIFYs of `updates` as an SQL expression (their count), for a statement that does other
+   * work too: it is sent when the statement commits.
+   */
+  notifySelect(updates: readonly SiteUpdatedEvent[]): RawBuilder<number> {
     const payloads = updates.map((u) =>
       JSON.stringify({ siteId: u.siteId, what: u.what, at: u.at }),
     );
-    await sql`select pg_notify(${SITE_UPDATES_CHANNEL}, p) from unnest(${payloads}::text[]) as p`.execute(
-      trx,
-    );
+    return sql<number>`(select count(pg_notify(${SITE_UPDATES_CHANNEL}, p))::int from unnest(${payloads}::text[]) as p)`;
   }
 
   /** In-process events; call after the commit. */

@@ -1,9 +1,10 @@
 import { Inject, Injectable } from '@nestjs/common';
-import { sql } from 'kysely';
+import { sql, type RawBuilder } from 'kysely';
 import { WRITER_DATABASE, type Database } from '../database/database.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { ChannelCache } from '../telemetry/channel-cache.js';
 import { storedText, storedValue, type PackToStore } from '../telemetry/pack.js';
+import { numberArrayLiteral, textArrayLiteral } from './array-literals.js';
 import type { ChannelKey } from './channels.repository.js';
 import { PartitionsService } from './partitions.service.js';
 import { LATE_AFTER_SECONDS, SWITCH_RESCAN_MINUTES } from './rollup-timing.js';
@@ -26,8 +27,8 @@ export interface BatchOutcome {
 }
 
 /**
- * Writes one group-commit batch in one transaction: readings, rejects, late-minute marks for the
- * roll-up, and one NOTIFY per site.
+ * Writes one group-commit batch in one statement (so one transaction): readings, rejects,
+ * late-minute marks for the roll-up, and one NOTIFY per site.
  *
  * Readings go in with `INSERT ... SELECT FROM unnest(arrays) ON CONFLICT DO NOTHING` rather than
  * COPY: COPY is faster on this machine (136–194k vs 106–134k rows/s, ingest-notes.md) but cannot
@@ -105,64 +106,77 @@ export class TelemetryBatchRepository {
       p.rejects.map((r) => ({ gatewayId: p.gatewayId, siteId: p.siteId, at: p.receivedAt, ...r })),
     );
 
-    return this.db.transaction().execute(async (trx) => {
-      let stored = 0;
-      if (sites.length > 0) {
-        const result = await sql`
-          insert into readings (site_id, channel_id, time, value, text_value)
-          select s, c, to_timestamp(t), v, x
-          from unnest(${sites}::uuid[], ${channelIds}::int[], ${times}::float8[],
-                      ${values}::float8[], ${texts}::text[]) as r(s, c, t, v, x)
-          on conflict do nothing`.execute(trx);
-        stored = Number(result.numAffectedRows ?? 0);
-      }
-      if (rejectRows.length > 0) {
-        await sql`
-          insert into ingest_rejects (gateway_id, site_id, received_at, record_name, reason, raw)
-          select * from unnest(${rejectRows.map((r) => r.gatewayId)}::text[],
-                               ${rejectRows.map((r) => r.siteId)}::uuid[],
-                               ${rejectRows.map((r) => new Date(r.at).toISOString())}::timestamptz[],
-                               ${rejectRows.map((r) => r.recordName)}::text[],
-                               ${rejectRows.map((r) => r.reason)}::text[],
-                               ${rejectRows.map((r) => r.raw)}::text[])`.execute(trx);
-      }
-      if (lateSites.length > 0) {
-        // The exact test uses the database clock at the end of the transaction, the same clock
-        // the roll-up uses to decide which minutes are closed (see rollup-timing.ts).
-        //
-        // A mark that is already there is updated, not skipped: the update locks it until this
-        // transaction commits, and the sweep skips locked marks (FOR UPDATE SKIP LOCKED). With
-        // DO NOTHING, a sweep could consume the existing mark and recompute the minute before
-        // these rows were visible, and the rows would never reach their buckets (found by the
-        // fault runs, issue 9). Sorted, so concurrent batches lock marks in the same order.
-        await sql`
-          insert into rollup_pending (site_id, minute)
-          select distinct l.s, m.minute
-          from unnest(${lateSites}::uuid[], ${lateTimes}::float8[], ${lateSpans}::int[]) as l(s, t, span)
-          cross join lateral generate_series(
-            date_trunc('minute', to_timestamp(l.t), 'UTC'),
-            date_trunc('minute', to_timestamp(l.t), 'UTC') + l.span * interval '1 minute',
-            interval '1 minute') as m(minute)
-          where to_timestamp(l.t) < clock_timestamp() - ${LATE_AFTER_SECONDS} * interval '1 second'
-          order by 1, 2
-          on conflict (site_id, minute) do update set marked_at = excluded.marked_at`.execute(trx);
-      }
-      const at = new Date().toISOString();
-      const updates: SiteUpdatedEvent[] = [...perSite].map(([siteId, span]) => ({
-        siteId,
-        what: ['readings'],
-        at,
-        from: new Date(span.from * 1000).toISOString(),
-        to: new Date(span.to * 1000).toISOString(),
-      }));
-      await this.siteUpdates.notifyInTransaction(trx, updates);
-      return {
-        stored,
-        duplicates: sites.length - stored,
-        rejected: rejectRows.length,
-        updates,
-        rows: { channelIds, times, values, texts },
-      };
-    });
+    const at = new Date().toISOString();
+    const updates: SiteUpdatedEvent[] = [...perSite].map(([siteId, span]) => ({
+      siteId,
+      what: ['readings'],
+      at,
+      from: new Date(span.from * 1000).toISOString(),
+      to: new Date(span.to * 1000).toISOString(),
+    }));
+
+    // One statement, so one round trip and its own transaction: at saturation every round trip
+    // of a BEGIN ... COMMIT waited for a turn of ingest's busy event loop, and those waits, not
+    // PostgreSQL, made most of a batch's commit time.
+    const writes: RawBuilder<unknown>[] = [];
+    if (sites.length > 0) {
+      writes.push(sql`readings_written as (
+        insert into readings (site_id, channel_id, time, value, text_value)
+        select s, c, to_timestamp(t), v, x
+        from unnest(${textArrayLiteral(sites)}::uuid[], ${numberArrayLiteral(channelIds)}::int[],
+                    ${numberArrayLiteral(times)}::float8[], ${numberArrayLiteral(values)}::float8[],
+                    ${textArrayLiteral(texts)}::text[]) as r(s, c, t, v, x)
+        on conflict do nothing
+        returning 1)`);
+    }
+    if (rejectRows.length > 0) {
+      writes.push(sql`rejects_written as (
+        insert into ingest_rejects (gateway_id, site_id, received_at, record_name, reason, raw)
+        select * from unnest(${rejectRows.map((r) => r.gatewayId)}::text[],
+                             ${rejectRows.map((r) => r.siteId)}::uuid[],
+                             ${rejectRows.map((r) => new Date(r.at).toISOString())}::timestamptz[],
+                             ${rejectRows.map((r) => r.recordName)}::text[],
+                             ${rejectRows.map((r) => r.reason)}::text[],
+                             ${rejectRows.map((r) => r.raw)}::text[])
+        returning 1)`);
+    }
+    if (lateSites.length > 0) {
+      // The exact test uses the database clock when the statement runs, the same clock the
+      // roll-up uses to decide which minutes are closed (see rollup-timing.ts).
+      //
+      // A mark that is already there is updated, not skipped: the update locks it until this
+      // transaction commits, and the sweep skips locked marks (FOR UPDATE SKIP LOCKED). With
+      // DO NOTHING, a sweep could consume the existing mark and recompute the minute before
+      // these rows were visible, and the rows would never reach their buckets (found by the
+      // fault runs, issue 9). Sorted, so concurrent batches lock marks in the same order.
+      writes.push(sql`late_marked as (
+        insert into rollup_pending (site_id, minute)
+        select distinct l.s, m.minute
+        from unnest(${lateSites}::uuid[], ${lateTimes}::float8[], ${lateSpans}::int[]) as l(s, t, span)
+        cross join lateral generate_series(
+          date_trunc('minute', to_timestamp(l.t), 'UTC'),
+          date_trunc('minute', to_timestamp(l.t), 'UTC') + l.span * interval '1 minute',
+          interval '1 minute') as m(minute)
+        where to_timestamp(l.t) < clock_timestamp() - ${LATE_AFTER_SECONDS} * interval '1 second'
+        order by 1, 2
+        on conflict (site_id, minute) do update set marked_at = excluded.marked_at
+        returning 1)`);
+    }
+    const stored = sites.length > 0 ? sql`(select count(*) from readings_written)::int` : sql`0`;
+    // Data-modifying CTEs run whether or not the outer select reads them (PostgreSQL manual
+    // 7.8.4); the NOTIFYs are in the select list, so they are sent when this commits.
+    const result = await sql<{ stored: number }>`
+      ${writes.length > 0 ? sql`with ${sql.join(writes, sql`, `)}` : sql``}
+      select ${stored} as stored, ${this.siteUpdates.notifySelect(updates)} as notified`.execute(
+      this.db,
+    );
+    const written = result.rows[0]!.stored;
+    return {
+      stored: written,
+      duplicates: sites.length - written,
+      rejected: rejectRows.length,
+      updates,
+      rows: { channelIds, times, values, texts },
+    };
   }
 }
