@@ -14,6 +14,7 @@ import {
   readDatabaseConfig,
   repoRoot,
 } from '@wellkept/db';
+import { ingestNodeArgs } from '../ingest/src/config/node-args.js';
 import { ensureSystemPackages } from './system-packages.js';
 
 // Settings from .env at the root, if present; variables already set in the environment win.
@@ -60,7 +61,7 @@ const services: Service[] = [
     name: 'ingest',
     entry: 'ingest/dist/main.js',
     command: process.execPath,
-    args: ['ingest/dist/main.js'],
+    args: [...ingestNodeArgs(), 'ingest/dist/main.js'],
     url: `mqtt://127.0.0.1:${ports.mqtt} (gateways), http://127.0.0.1:${ports.ingestHttp}/health`,
   },
   {

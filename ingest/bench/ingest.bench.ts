@@ -30,6 +30,7 @@ import {
 } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import copyStreams from 'pg-copy-streams';
+import { ingestNodeArgs } from '../src/config/node-args.js';
 import { seedBenchGateways } from './seed-bench-gateways.js';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
@@ -218,15 +219,20 @@ try {
         `--logfile=${process.env.BENCH_INGEST_PROFILE}/ingest-v8.log`,
       ]
     : [];
-  const ingest = node([...profile, join(repoRoot, 'ingest/dist/main.js')], {
-    DATABASE_URL: databaseUrl,
-    MQTT_PORT: String(mqttPort),
-    MQTT_WS_PORT: String(await freePort()),
-    INGEST_HTTP_PORT: String(httpPort),
-    INGEST_HOST: '127.0.0.1',
-    MQTT_MAX_CONNECTIONS: String(CONNECTIONS + 100),
-    LOG_LEVEL: 'warn',
-  });
+  // BENCH_INGEST_NODE_FLAGS: extra flags for the ingest process (e.g. V8 heap sizes), to try them.
+  const extraFlags = (process.env.BENCH_INGEST_NODE_FLAGS ?? '').split(/\s+/).filter(Boolean);
+  const ingest = node(
+    [...profile, ...ingestNodeArgs(), ...extraFlags, join(repoRoot, 'ingest/dist/main.js')],
+    {
+      DATABASE_URL: databaseUrl,
+      MQTT_PORT: String(mqttPort),
+      MQTT_WS_PORT: String(await freePort()),
+      INGEST_HTTP_PORT: String(httpPort),
+      INGEST_HOST: '127.0.0.1',
+      MQTT_MAX_CONNECTIONS: String(CONNECTIONS + 100),
+      LOG_LEVEL: 'warn',
+    },
+  );
   children.push(ingest);
   for (let i = 0; ; i++) {
     const ok = await fetch(`http://127.0.0.1:${httpPort}/health`).then(
@@ -248,6 +254,13 @@ try {
     Number(new RegExp(`^${name} ([0-9.e+-]+)$`, 'm').exec(metricsText)?.[1] ?? NaN);
   const batches = metric('wellkept_ingest_batch_packs_count');
   const meanBatchPacks = metric('wellkept_ingest_batch_packs_sum') / batches;
+  // Where the process's memory is, as it reports it (prom-client's default metrics).
+  const heapMb = {
+    used: metric('wellkept_ingest_nodejs_heap_size_used_bytes') / 2 ** 20,
+    total: metric('wellkept_ingest_nodejs_heap_size_total_bytes') / 2 ** 20,
+    external: metric('wellkept_ingest_nodejs_external_memory_bytes') / 2 ** 20,
+    rss: rssMb(ingest.pid!),
+  };
   const meanCommitMs =
     (1000 * metric('wellkept_ingest_commit_seconds_sum')) /
     metric('wellkept_ingest_commit_seconds_count');
@@ -313,6 +326,7 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
   (d) ingest at half load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
         PUBACK latency p50/p95/p99:    ${f(halfLoad.latencyMs.p50, 1)} / ${f(halfLoad.latencyMs.p95, 1)} / ${f(halfLoad.latencyMs.p99, 1)} ms  (target p99 ≤ 250 ms)
   ingest peak RSS:                     ${f(peakRss)} MB  (target ≤ 600 MB at 10,000 connections)
+        after (c): RSS ${f(heapMb.rss)} MB; V8 heap ${f(heapMb.used)} MB used of ${f(heapMb.total)} MB; external ${f(heapMb.external)} MB
   acknowledged packs (c):              ${f(missing.packs)}; records missing: ${missing.missing_records}  (target 0)
   readings stored in total:            ${f(rows)}; publish errors (c)/(d): ${saturated.errors}/${halfLoad.errors}
 `);

@@ -11,6 +11,7 @@ import {
   type PostgresCluster,
 } from '@wellkept/db';
 import { Kysely, PostgresDialect } from 'kysely';
+import { ingestNodeArgs } from '../../ingest/src/config/node-args.js';
 import { RestartableCatcher } from './restartable-catcher.js';
 import { ServiceProcess } from './service-process.js';
 
@@ -103,7 +104,7 @@ export async function startStack(options: StackOptions): Promise<FaultStack> {
   };
   const ingest = new ServiceProcess({
     name: 'ingest',
-    args: [ENTRIES.ingest],
+    args: [...ingestNodeArgs(), ENTRIES.ingest],
     env: {
       ...common,
       NODE_ENV: 'production',

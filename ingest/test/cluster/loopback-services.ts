@@ -10,6 +10,7 @@ import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { freePort, repoRoot } from '@wellkept/db';
+import { ingestNodeArgs } from '../../src/config/node-args.js';
 
 const REDIS_SERVER = '/usr/bin/redis-server';
 const HAPROXY = '/usr/sbin/haproxy';
@@ -204,7 +205,7 @@ export async function startIngestNode(options: {
   if (!existsSync(INGEST_MAIN)) throw new Error(`${INGEST_MAIN} is missing: run npx tsc -b`);
   const port = await freePort();
   const httpPort = await freePort();
-  const child = spawn(process.execPath, [INGEST_MAIN], {
+  const child = spawn(process.execPath, [...ingestNodeArgs(), INGEST_MAIN], {
     cwd: repoRoot,
     env: {
       ...process.env,
