@@ -7,6 +7,7 @@ import * as sixHourBuckets from './20261202_1130_six_hour_buckets.js';
 import * as mailWaitingForServer from './20261202_1400_mail_waiting_for_server.js';
 import * as coveringBucketKeys from './20261202_1410_covering_bucket_keys.js';
 import * as tenMinuteBuckets from './20261202_1500_ten_minute_buckets.js';
+import * as readingsTimeIndex from './20261202_1510_readings_time_index.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -21,4 +22,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_1400_mail_waiting_for_server': mailWaitingForServer,
   '20261202_1410_covering_bucket_keys': coveringBucketKeys,
   '20261202_1500_ten_minute_buckets': tenMinuteBuckets,
+  '20261202_1510_readings_time_index': readingsTimeIndex,
 };
