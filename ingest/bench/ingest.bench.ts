@@ -7,7 +7,8 @@
  *  (b) PostgreSQL's COPY ceiling into a table identical to `readings`;
  *  (c) ingest (ingest/dist/main.js) at a saturating offered rate: committed packs/s and
  *      records/s, PUBACK latency, RSS, and acknowledged records missing afterwards;
- *  (d) ingest at half the committed rate of (c): PUBACK latency.
+ *  (d) ingest at half the committed rate of (c): PUBACK latency;
+ *  (e) the broker alone at that half rate: the latency floor of the gateways and broker.
  * Targets (issue 4): (c) ≥ 50 % of (a) and ≥ 8,000 packs/s; p99 ≤ 250 ms in (d); RSS ≤ 600 MB
  * at 10,000 connections; zero acknowledged records missing.
  */
@@ -311,6 +312,16 @@ try {
   await stop(ingest);
   await db.destroy();
 
+  // (e) The broker alone at the same half load: the latency the gateways and the broker add by
+  // themselves on this machine (the load generator's clients share its cores), for scale.
+  const aloneAgain = node(['--import', 'tsx', join(here, 'broker-alone.ts'), String(alonePort)]);
+  children.push(aloneAgain);
+  await waitForLine(aloneAgain, 'ready');
+  log(`broker alone at half load: ${half} packs/s`);
+  const aloneHalf = await runGenerator(`mqtt://127.0.0.1:${alonePort}`, half, `${work}-ah.csv`);
+  await stop(aloneAgain);
+  rmSync(`${work}-ah.csv`, { force: true });
+
   const f = (n: number, digits = 0) => n.toLocaleString('en-US', { maximumFractionDigits: digits });
   const committed = saturated.ackedPerSecond;
   console.log(`
@@ -325,6 +336,7 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
         group commits:                 ${f(batches)} batches, mean ${f(meanBatchPacks)} packs, mean commit ${f(meanCommitMs, 1)} ms
   (d) ingest at half load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
         PUBACK latency p50/p95/p99:    ${f(halfLoad.latencyMs.p50, 1)} / ${f(halfLoad.latencyMs.p95, 1)} / ${f(halfLoad.latencyMs.p99, 1)} ms  (target p99 ≤ 250 ms)
+  (e) broker alone at that half load:  PUBACK p50/p95/p99 ${f(aloneHalf.latencyMs.p50, 1)} / ${f(aloneHalf.latencyMs.p95, 1)} / ${f(aloneHalf.latencyMs.p99, 1)} ms (no database: the floor)
   ingest peak RSS:                     ${f(peakRss)} MB  (target ≤ 600 MB at 10,000 connections)
         after (c): RSS ${f(heapMb.rss)} MB; V8 heap ${f(heapMb.used)} MB used of ${f(heapMb.total)} MB; external ${f(heapMb.external)} MB
   acknowledged packs (c):              ${f(missing.packs)}; records missing: ${missing.missing_records}  (target 0)
