@@ -68,13 +68,33 @@ function accumulate(
 /** The site's local day that holds a bucket (day buckets follow the site's time zone). */
 const LOCAL_DAY = sql`date_trunc('day', m.bucket_start, s.time_zone)`;
 
-/** The UTC ten minutes (aligned to the epoch: :00, :10, ... :50) that hold an instant. */
-const tenMinutesOf = (t: RawBuilder<unknown>) =>
-  sql`date_bin('10 minutes', ${t}, timestamptz '2000-01-01 00:00:00+00')`;
-
-/** The UTC quarter-day (00, 06, 12, 18 h) that holds an instant. */
-const sixHourOf = (t: RawBuilder<unknown>) =>
-  sql`date_bin('6 hours', ${t}, timestamptz '2000-01-01 00:00:00+00')`;
+/**
+ * The bucket tables of fixed UTC periods, built from minute buckets: the table, the period that
+ * holds an instant, and the period's length. (Day buckets follow each site's time zone instead.)
+ */
+const UTC_TIERS: readonly {
+  table: 'ten_minute_buckets' | 'hour_buckets' | 'six_hour_buckets';
+  periodOf: (t: RawBuilder<unknown>) => RawBuilder<unknown>;
+  length: RawBuilder<unknown>;
+}[] = [
+  {
+    // :00, :10, ... :50 of every hour, for week-long charts.
+    table: 'ten_minute_buckets',
+    periodOf: (t) => sql`date_bin('10 minutes', ${t}, timestamptz '2000-01-01 00:00:00+00')`,
+    length: sql`interval '10 minutes'`,
+  },
+  {
+    table: 'hour_buckets',
+    periodOf: (t) => sql`date_trunc('hour', ${t}, 'UTC')`,
+    length: sql`interval '1 hour'`,
+  },
+  {
+    // Quarter-days from 00, 06, 12 and 18 h, for year-long charts.
+    table: 'six_hour_buckets',
+    periodOf: (t) => sql`date_bin('6 hours', ${t}, timestamptz '2000-01-01 00:00:00+00')`,
+    length: sql`interval '6 hours'`,
+  },
+];
 
 /**
  * SQL of the bucket roll-up. Minute buckets are computed from raw readings; ten-minute buckets
@@ -105,33 +125,17 @@ export class BucketsRepository {
 
   /** Adds the minute buckets of [from, to) to their ten-minute, hour, six-hour and day buckets. */
   async accumulateMinutes(trx: Tx, from: Date, to: Date): Promise<void> {
-    await sql`
-      insert into ten_minute_buckets as ten_minute_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, ${tenMinutesOf(sql`m.bucket_start`)}, ${MERGED_AGGREGATES}
-      from minute_buckets m
-      where m.bucket_start >= ${from} and m.bucket_start < ${to}
-      group by 1, 2, 3
-      on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('ten_minute_buckets')}`.execute(
-      trx,
-    );
-    await sql`
-      insert into hour_buckets as hour_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, date_trunc('hour', m.bucket_start, 'UTC'), ${MERGED_AGGREGATES}
-      from minute_buckets m
-      where m.bucket_start >= ${from} and m.bucket_start < ${to}
-      group by 1, 2, 3
-      on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('hour_buckets')}`.execute(
-      trx,
-    );
-    await sql`
-      insert into six_hour_buckets as six_hour_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, ${sixHourOf(sql`m.bucket_start`)}, ${MERGED_AGGREGATES}
-      from minute_buckets m
-      where m.bucket_start >= ${from} and m.bucket_start < ${to}
-      group by 1, 2, 3
-      on conflict (site_id, channel_id, bucket_start) do update set ${accumulate('six_hour_buckets')}`.execute(
-      trx,
-    );
+    for (const { table, periodOf } of UTC_TIERS) {
+      await sql`
+        insert into ${sql.table(table)} as ${sql.table(table)} (${BUCKET_COLUMNS})
+        select m.site_id, m.channel_id, ${periodOf(sql`m.bucket_start`)}, ${MERGED_AGGREGATES}
+        from minute_buckets m
+        where m.bucket_start >= ${from} and m.bucket_start < ${to}
+        group by 1, 2, 3
+        on conflict (site_id, channel_id, bucket_start) do update set ${accumulate(table)}`.execute(
+        trx,
+      );
+    }
     await sql`
       insert into day_buckets as day_buckets (${BUCKET_COLUMNS})
       select m.site_id, m.channel_id, ${LOCAL_DAY}, ${MERGED_AGGREGATES}
@@ -171,38 +175,18 @@ export class BucketsRepository {
       group by x.site_id, x.channel_id, x.minute
       on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
 
-    await sql`
-      with touched as (
-        select distinct p.site_id, ${tenMinutesOf(sql`p.minute`)} as period
-        from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
-      insert into ten_minute_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, t.period, ${MERGED_AGGREGATES}
-      from touched t join minute_buckets m on m.site_id = t.site_id
-        and m.bucket_start >= t.period and m.bucket_start < t.period + interval '10 minutes'
-      group by m.site_id, m.channel_id, t.period
-      on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
-
-    await sql`
-      with touched as (
-        select distinct p.site_id, date_trunc('hour', p.minute, 'UTC') as hour
-        from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
-      insert into hour_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, t.hour, ${MERGED_AGGREGATES}
-      from touched t join minute_buckets m on m.site_id = t.site_id
-        and m.bucket_start >= t.hour and m.bucket_start < t.hour + interval '1 hour'
-      group by m.site_id, m.channel_id, t.hour
-      on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
-
-    await sql`
-      with touched as (
-        select distinct p.site_id, ${sixHourOf(sql`p.minute`)} as period
-        from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
-      insert into six_hour_buckets (${BUCKET_COLUMNS})
-      select m.site_id, m.channel_id, t.period, ${MERGED_AGGREGATES}
-      from touched t join minute_buckets m on m.site_id = t.site_id
-        and m.bucket_start >= t.period and m.bucket_start < t.period + interval '6 hours'
-      group by m.site_id, m.channel_id, t.period
-      on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
+    for (const { table, periodOf, length } of UTC_TIERS) {
+      await sql`
+        with touched as (
+          select distinct p.site_id, ${periodOf(sql`p.minute`)} as period
+          from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute))
+        insert into ${sql.table(table)} (${BUCKET_COLUMNS})
+        select m.site_id, m.channel_id, t.period, ${MERGED_AGGREGATES}
+        from touched t join minute_buckets m on m.site_id = t.site_id
+          and m.bucket_start >= t.period and m.bucket_start < t.period + ${length}
+        group by m.site_id, m.channel_id, t.period
+        on conflict (site_id, channel_id, bucket_start) do update set ${OVERWRITE}`.execute(trx);
+    }
 
     await sql`
       with touched as (
