@@ -15,14 +15,13 @@ export interface ChannelRow {
   last_text: string | null;
 }
 
-/** The points of one channel, column by column, in time order. */
-export interface ChannelSeries {
+/** One aggregated point of one channel. */
+export interface SeriesRow {
   channel_id: number;
-  t: number[];
-  mean: number[];
-  min: number[];
-  max: number[];
-  /** Rows of the source table read for these points. */
+  t: number;
+  mean: number;
+  min: number;
+  max: number;
   rows: number;
 }
 
@@ -68,42 +67,24 @@ export class ReadingsRepository {
     stepSeconds: number,
     from: Date,
     to: Date,
-  ): Promise<ChannelSeries[]> {
-    // Each channel's points come back as one row of JSON arrays: a year of 6-hour points is
-    // 5,840 rows for 4 channels, and turning each into an object in node-pg cost more than
-    // PostgreSQL took to read them (JSON.parse of four arrays is native).
-    const { rows } = await sql<ChannelSeries>`
-      select channel_id, json_agg(t order by t) as t, json_agg(mean order by t) as mean,
-             json_agg(min order by t) as min, json_agg(max order by t) as max,
-             sum(rows)::int as rows
-        from (${this.points(site, channelIds, source, stepSeconds, from, to)}) p
-       group by channel_id`.execute(this.db);
-    return rows;
-  }
-
-  /** The points as rows (channel_id, t in epoch ms, mean, min, max, rows read). */
-  private points(
-    site: VisibleSite,
-    channelIds: number[],
-    source: SeriesSource,
-    stepSeconds: number,
-    from: Date,
-    to: Date,
-  ) {
+  ): Promise<SeriesRow[]> {
     if (source === 'raw') {
-      return sql`
+      const { rows } = await sql<SeriesRow>`
         select channel_id, (extract(epoch from time) * 1000)::float8 as t,
                value as mean, value as min, value as max, 1 as rows
           from readings
          where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
-           and time >= ${from} and time < ${to} and value is not null`;
+           and time >= ${from} and time < ${to} and value is not null
+         order by channel_id, time`.execute(this.db);
+      return rows;
     }
     const table = sql.table(BUCKET_TABLE[source]);
     if (stepSeconds === BUCKET_SECONDS[source]) {
       // Points are the buckets themselves: one index-only range scan per channel, already in
       // time order (the key covers the columns read, migration 1410). With `channel_id = any()`
-      // PostgreSQL 15 scans the same ranges but then sorts every row.
-      return sql`
+      // PostgreSQL 15 scans the same ranges but then sorts every row. No outer ORDER BY: the
+      // service groups rows by channel, and each channel's rows come in its subquery's order.
+      const { rows } = await sql<SeriesRow>`
         select c.id as channel_id, (extract(epoch from b.bucket_start) * 1000)::float8 as t,
                b.sum / b.sample_count as mean, b.min, b.max, 1 as rows
           from unnest(${channelIds}::int[]) with ordinality as c(id, ord)
@@ -112,9 +93,10 @@ export class ReadingsRepository {
                  from ${table}
                 where site_id = ${site.id} and channel_id = c.id
                   and bucket_start >= ${from} and bucket_start < ${to}
-                order by bucket_start) b`;
+                order by bucket_start) b`.execute(this.db);
+      return rows;
     }
-    return sql`
+    const { rows } = await sql<SeriesRow>`
       select channel_id,
              (floor(extract(epoch from bucket_start) / ${stepSeconds}) * ${stepSeconds} * 1000)::float8 as t,
              sum(sum) / sum(sample_count) as mean,
@@ -124,6 +106,8 @@ export class ReadingsRepository {
         from ${table}
        where site_id = ${site.id} and channel_id = any(${channelIds}::int[])
          and bucket_start >= ${from} and bucket_start < ${to}
-       group by 1, 2`;
+       group by 1, 2
+       order by 1, 2`.execute(this.db);
+    return rows;
   }
 }

@@ -50,20 +50,25 @@ export class SeriesService {
       query.from,
       query.to,
     );
-    const byChannel = new Map(rows.map((r) => [r.channel_id, r]));
-    const series = chosen.map((c) => {
-      const points = byChannel.get(c.id);
-      return {
-        channel: c.name,
-        unit: c.unit,
-        valueKind: c.value_kind as 'number' | 'boolean',
-        t: points?.t ?? [],
-        mean: points?.mean ?? [],
-        min: points?.min ?? [],
-        max: points?.max ?? [],
-      };
-    });
-    const rowsRead = rows.reduce((n, r) => n + r.rows, 0);
+    const series = chosen.map((c) => ({
+      channel: c.name,
+      unit: c.unit,
+      valueKind: c.value_kind as 'number' | 'boolean',
+      t: [] as number[],
+      mean: [] as number[],
+      min: [] as number[],
+      max: [] as number[],
+    }));
+    const index = new Map(chosen.map((c, i) => [c.id, series[i]!]));
+    let rowsRead = 0;
+    for (const r of rows) {
+      const s = index.get(r.channel_id)!;
+      s.t.push(r.t);
+      s.mean.push(r.mean);
+      s.min.push(r.min);
+      s.max.push(r.max);
+      rowsRead += r.rows;
+    }
     return { siteId: site.id, from: query.from, to: query.to, resolution, rowsRead, series };
   }
 }
