@@ -8,7 +8,7 @@
  * commit outlive young-generation collections; with no cap V8 grew the heap to 500+ MB of
  * mostly dead objects before collecting, and the process to 1 GB at 10,000 connections. The
  * live heap there was about 150 MB, so 384 MB leaves room; capped, the benchmark measured
- * RSS under 500 MB at 10,000 connections and no loss of throughput (the smaller heap was faster).
+ * RSS under 500 MB at 10,000 connections, with throughput no lower in the runs measured.
  * Raise it for far more connections than that: past the cap the process stops with an
  * out-of-memory error, and gateways re-send whatever was not acknowledged.
  */
