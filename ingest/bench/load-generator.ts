@@ -88,6 +88,7 @@ let sent = 0;
 let ackedInWindow = 0;
 let errors = 0;
 let cursor = 0;
+const cpuBefore = process.cpuUsage();
 const runStart = performance.now();
 const windowStart = runStart + options.warmupS * 1000;
 const runEnd = runStart + options.durationS * 1000;
@@ -138,6 +139,9 @@ await new Promise<void>((resolve) => {
   }, 5);
 });
 
+const cpu = process.cpuUsage(cpuBefore);
+const runSeconds = (performance.now() - runStart) / 1000;
+
 // Let the packs in flight finish (their acknowledgements count toward the missing-records check).
 const drainUntil = Date.now() + 15_000;
 while (fleet.some((g) => g.inflight > 0) && Date.now() < drainUntil) {
@@ -161,6 +165,7 @@ console.log(
     errors,
     ackedPerSecond: ackedInWindow / (options.durationS - options.warmupS),
     latencyMs: { p50: pct(50), p95: pct(95), p99: pct(99) },
+    generatorCpuPercent: (100 * (cpu.user + cpu.system)) / 1e6 / runSeconds,
   }),
 );
 process.exit(0);
