@@ -67,7 +67,7 @@ export class SeriesService {
       s.mean.push(r.mean);
       s.min.push(r.min);
       s.max.push(r.max);
-      rowsRead += r.rows;
+      rowsRead += r.rows ?? 1;
     }
     return { siteId: site.id, from: query.from, to: query.to, resolution, rowsRead, series };
   }
