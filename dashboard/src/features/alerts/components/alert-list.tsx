@@ -70,7 +70,8 @@ export function AlertList(props: {
   );
 }
 
-function AlertItem(props: {
+/** One alert; exported for its tests. */
+export function AlertItem(props: {
   alert: Alert;
   plain?: boolean;
   canAcknowledge: boolean;
@@ -137,13 +138,11 @@ function AlertItem(props: {
           Cleared {formatDateTime(alert.clearedAt, timeZone)}
         </p>
       )}
-      {alert.status !== 'cleared' && (wiringOrBattery || wellWork) && (
+      {/* Owners are not sent to the equipment at all: their page carries the one caution
+          (leave enclosures closed) in its summary, so repeating it per alert only adds noise. */}
+      {!props.plain && alert.status !== 'cleared' && (wiringOrBattery || wellWork) && (
         <div className="mt-2">
-          <SafetyCaution
-            topics={
-              props.plain ? ['owner'] : wiringOrBattery ? ['battery', 'wiring'] : ['well', 'wiring']
-            }
-          />
+          <SafetyCaution topics={wiringOrBattery ? ['battery', 'wiring'] : ['well', 'wiring']} />
         </div>
       )}
       {props.canAcknowledge && alert.status === 'open' && (
