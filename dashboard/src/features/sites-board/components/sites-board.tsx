@@ -151,11 +151,28 @@ function BoardBody({ data }: { data: FleetOverview }) {
       {shown.length === 0 ? (
         <Empty title="No site matches">Clear the search or pick another health.</Empty>
       ) : (
-        <ul className="space-y-2" aria-label="Sites">
-          {shown.map((site) => (
-            <SiteRow key={site.id} site={site} sparkStart={data.sparkStart} />
-          ))}
-        </ul>
+        <>
+          {/* Column headings for wide screens. Hidden from assistive technology: every cell
+              already carries its own label (visible on narrow screens, screen-reader-only on
+              wide ones), so reading these too would say each name twice. */}
+          <div
+            aria-hidden="true"
+            data-testid="board-headings"
+            className={`wk-label hidden gap-x-4 border border-l-4 border-transparent px-3 sm:grid ${ROW_COLUMNS}`}
+          >
+            <span>Site</span>
+            <span>Charge</span>
+            <span>Water stored</span>
+            <span>Days of water</span>
+            <span>Last seen</span>
+            <span>Last 24 hours</span>
+          </div>
+          <ul className="space-y-2" aria-label="Sites">
+            {shown.map((site) => (
+              <SiteRow key={site.id} site={site} sparkStart={data.sparkStart} />
+            ))}
+          </ul>
+        </>
       )}
     </>
   );
@@ -177,6 +194,9 @@ function FilterChip(props: { active: boolean; onClick: () => void; children: Rea
     </button>
   );
 }
+
+/** The wide-screen columns of a site row and of the headings above them (the chart is 120 px). */
+const ROW_COLUMNS = 'sm:grid-cols-[minmax(0,2.2fr)_repeat(4,minmax(0,1fr))_120px]';
 
 const HEALTH_EDGE: Record<SiteHealth, string> = {
   act: 'border-l-wk-act',
@@ -200,7 +220,7 @@ function SiteRow({ site, sparkStart }: { site: FleetSite; sparkStart: number }) 
       : 'No readings in the last 24 hours';
   return (
     <li
-      className={`wk-card grid grid-cols-2 gap-x-4 gap-y-3 border-l-4 p-3 sm:grid-cols-[minmax(0,2.2fr)_repeat(4,minmax(0,1fr))_auto] sm:items-center ${HEALTH_EDGE[site.health]}`}
+      className={`wk-card grid grid-cols-2 gap-x-4 gap-y-3 border-l-4 p-3 sm:items-center ${ROW_COLUMNS} ${HEALTH_EDGE[site.health]}`}
       data-site-id={site.id}
     >
       <div className="col-span-2 min-w-0 sm:col-span-1">
