@@ -2,7 +2,8 @@
 /**
  * The dashboard in Debian's Chromium against the real API and database: roles see the right
  * sites and controls, an alert is acknowledged, a photo is uploaded and its thumbnail shown,
- * units switch from gallons to litres, and a live reading arrives without a reload.
+ * units switch from gallons to litres, a live reading arrives without a reload, and an invited
+ * person joins and later resets their password through the e-mailed links.
  */
 import { useTestDatabase } from '@wellkept/db/testing';
 import type { BrowserContext, Cookie, Page } from 'playwright-core';
@@ -405,4 +406,69 @@ describe('dashboard in Chromium', () => {
       }
     },
   );
+  it('lets an invited technician join through the e-mailed link, once, and reset the password later', async () => {
+    const email = 'nell.harrow@lanternfield.example';
+    const admin = await signedIn(ADMIN);
+    await admin.goto(`${stack.url}/team`);
+    const form = admin.getByRole('form', { name: 'Invite someone' });
+    await form.getByLabel('E-mail').fill(email);
+    await form.getByLabel('Role').selectOption('technician');
+    await form.getByRole('button', { name: 'Send invitation' }).click();
+    await form.getByText(`Invitation sent to ${email}.`).waitFor();
+    await admin.close();
+    const invitation = await stack.mail.waitFor((m) => m.to.includes(email), 20_000);
+    const token = /accept-invitation\?token=([\w-]+)/.exec(invitation.text)?.[1];
+    expect(token, invitation.text).toBeTruthy();
+
+    // The link, opened signed out, sets a password and signs the person in.
+    await browser.context.clearCookies();
+    const page = await browser.context.newPage();
+    await page.goto(`${stack.url}/accept-invitation?token=${token}`);
+    await page.getByLabel('Your name').fill('Nell Harrow');
+    await page.getByLabel('Choose a password').fill('first-password-for-nell');
+    await page.getByLabel('Type it again').fill('first-password-for-nell');
+    await page.getByRole('button', { name: 'Accept and sign in' }).click();
+    await page.getByRole('heading', { name: 'Sites' }).waitFor();
+    await expect.poll(() => page.locator('ul[aria-label="Sites"] > li').count()).toBe(ALL_SITES);
+    await shot(page, 'accepted-invitation');
+
+    // It works once.
+    await browser.context.clearCookies();
+    await page.goto(`${stack.url}/accept-invitation?token=${token}`);
+    await page
+      .getByText('This invitation was already used or has expired. Ask for a new one.')
+      .waitFor();
+
+    // Forgot the password: the reset link sets a new one, and only the new one signs in.
+    await page.goto(`${stack.url}/sign-in`);
+    await page.getByRole('link', { name: 'Forgot your password?' }).click();
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByRole('button', { name: 'Send me a link' }).click();
+    await page.getByText(/a link to set a new password is on its way/).waitFor();
+    const reset = await stack.mail.waitFor(
+      (m) => m.to.includes(email) && /reset-password\?token=/.test(m.text),
+      20_000,
+    );
+    const resetToken = /reset-password\?token=([\w-]+)/.exec(reset.text)?.[1];
+    expect(resetToken, reset.text).toBeTruthy();
+    await page.goto(`${stack.url}/reset-password?token=${resetToken}`);
+    // By name: a label search for "New password" also finds the form titled "Set a new password".
+    await page.locator('input[name="password"]').fill('second-password-for-nell');
+    await page.locator('input[name="again"]').fill('second-password-for-nell');
+    await page.getByRole('button', { name: 'Set new password' }).click();
+    await page.getByText(/Your password is changed/).waitFor();
+
+    const signInWith = async (password: string) => {
+      await page.goto(`${stack.url}/sign-in`);
+      await page.getByLabel('E-mail').fill(email);
+      await page.getByLabel('Password').fill(password);
+      await page.getByRole('button', { name: 'Sign in' }).click();
+    };
+    await signInWith('first-password-for-nell');
+    await page.getByRole('alert').waitFor();
+    await expect(page.getByRole('heading', { name: 'Sites' }).count()).resolves.toBe(0);
+    await signInWith('second-password-for-nell');
+    await page.getByRole('heading', { name: 'Sites' }).waitFor();
+    await page.close();
+  });
 });

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { NestFastifyApplication } from '@nestjs/platform-fastify';
-import { freePort } from '@wellkept/db/testing';
+import { freePort, startMailCatcher, type MailCatcher } from '@wellkept/db/testing';
 import type { Database } from '@wellkept/db';
 import { build, preview, type PreviewServer } from 'vite';
 import { createApp } from '../../../api/src/app.js';
@@ -18,26 +18,30 @@ export interface TestStack {
   web: PreviewServer;
   url: string;
   seed: SeedResult;
+  /** The SMTP catcher the API sends invitations and reset links to. */
+  mail: MailCatcher;
   close(): Promise<void>;
 }
 
 /**
  * The real API (createApp, in this process) over the test's database with the demo company
  * and a day of simulated history, and the production build of the dashboard served by
- * `vite preview` with /api proxied to that API. Everything on free ports.
+ * `vite preview` with /api proxied to that API, and a mail catcher the API sends to.
+ * Everything on free ports.
  */
 export async function startTestStack(db: Database, databaseUrl: string): Promise<TestStack> {
   const seed = await seedDemo(db, join(mkdtempSync(join(tmpdir(), 'wk-demo-')), 'gateways.json'));
   await seedHistory(db, { days: 1, stepSeconds: 600 });
   await seedOpenAlerts(db);
 
+  const mail = await startMailCatcher();
   const apiPort = await freePort();
   const api = await createApp({
     config: {
       databaseUrl,
       jwtSecret: 'dashboard-browser-tests-signing-key-0123456789',
       uploads: { dir: mkdtempSync(join(tmpdir(), 'wk-uploads-')), maxBytes: 5 * 1024 * 1024 },
-      mail: { host: '127.0.0.1', port: 9, secure: false, from: 'Wellkept <test@wellkept.example>' },
+      mail: { ...mail.smtp, from: 'Wellkept <test@wellkept.example>' },
     },
     logLevels: ['error'],
   });
@@ -59,9 +63,11 @@ export async function startTestStack(db: Database, databaseUrl: string): Promise
     web,
     url: `http://127.0.0.1:${webPort}`,
     seed,
+    mail,
     close: async () => {
       await new Promise<void>((resolve) => web.httpServer.close(() => resolve()));
       await api.close();
+      await mail.stop();
     },
   };
 }
