@@ -60,23 +60,27 @@ export class PumpRunsService {
       return open && open < from ? open : from;
     };
     const lookBack = (d: Date) => new Date(d.getTime() - SWITCH_MAX_GAP_SECONDS * 1000);
-    const wanted = pumps.flatMap((p) => {
-      const from = lookBack(startOf(p));
-      const names = [
-        `pump/${p.key}/running`,
-        `pump/${p.key}/current`,
-        `pump/${p.key}/flow`,
-        'battery/voltage',
-      ];
-      if (p.tank) names.push(`tank/${p.tank.key}/level`);
-      return names.map((name) => ({ siteId: p.siteId, name, from }));
-    });
-    const samples = await this.repository.samples(wanted, trx);
-    const series = (siteId: string, name: string) => samples.get(`${siteId}\u0000${name}`) ?? [];
 
     const changedSites = new Set<string>();
+    // One pump's samples at a time: a run still open (a pump stuck on) re-derives from its
+    // start, so one pump can mean days of samples. Read for every pump at once, a 30-day demo
+    // backfill held 1.5 million rows together and ran ingest out of its heap (npm start,
+    // session 5); one pump's worth is what must fit.
     for (const pump of pumps) {
       const start = startOf(pump);
+      const from = lookBack(start);
+      const names = [
+        `pump/${pump.key}/running`,
+        `pump/${pump.key}/current`,
+        `pump/${pump.key}/flow`,
+        'battery/voltage',
+      ];
+      if (pump.tank) names.push(`tank/${pump.tank.key}/level`);
+      const samples = await this.repository.samples(
+        names.map((name) => ({ siteId: pump.siteId, name, from })),
+        trx,
+      );
+      const series = (siteId: string, name: string) => samples.get(`${siteId}\u0000${name}`) ?? [];
       const runs = derivePumpRuns({
         running: series(pump.siteId, `pump/${pump.key}/running`),
         current: series(pump.siteId, `pump/${pump.key}/current`),
