@@ -263,8 +263,7 @@ try {
     packs: metric('wellkept_ingest_batch_packs_sum', text),
     seconds: metric('wellkept_ingest_commit_seconds_sum', text),
   });
-  const batches = metric('wellkept_ingest_batch_packs_count');
-  const meanBatchPacks = metric('wellkept_ingest_batch_packs_sum') / batches;
+  const saturatedCommits = commitTotals(metricsText);
   // Where the process's memory is, as it reports it (prom-client's default metrics).
   const heapMb = {
     used: metric('wellkept_ingest_nodejs_heap_size_used_bytes') / 2 ** 20,
@@ -272,9 +271,6 @@ try {
     external: metric('wellkept_ingest_nodejs_external_memory_bytes') / 2 ** 20,
     rss: rssMb(ingest.pid!),
   };
-  const meanCommitMs =
-    (1000 * metric('wellkept_ingest_commit_seconds_sum')) /
-    metric('wellkept_ingest_commit_seconds_count');
 
   // Every acknowledged pack must have all its records stored.
   const missing = await (async () => {
@@ -320,7 +316,6 @@ try {
   const afterHalf = commitTotals(
     await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text(),
   );
-  const halfBatches = afterHalf.batches - beforeHalf.batches;
   rmSync(`${work}-half.csv`, { force: true });
   clearInterval(rssTimer);
   const rows = Number(
@@ -340,6 +335,11 @@ try {
   rmSync(`${work}-ah.csv`, { force: true });
 
   const f = (n: number, digits = 0) => n.toLocaleString('en-US', { maximumFractionDigits: digits });
+  /** Group commits between two readings of ingest's counters, as one line of the report. */
+  const commits = (from: ReturnType<typeof commitTotals>, to: ReturnType<typeof commitTotals>) => {
+    const batches = to.batches - from.batches;
+    return `${f(batches)} batches, mean ${f((to.packs - from.packs) / batches)} packs, mean commit ${f((1000 * (to.seconds - from.seconds)) / batches, 1)} ms`;
+  };
   const committed = saturated.ackedPerSecond;
   console.log(`
 Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECONDS} s runs (${WARMUP} s warm-up)
@@ -350,10 +350,10 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
         vs COPY ceiling (records):     ${f((100 * committed * RECORDS_PER_PACK) / copyRowsPerSecond, 1)} %
         PUBACK latency p50/p95/p99:    ${f(saturated.latencyMs.p50, 1)} / ${f(saturated.latencyMs.p95, 1)} / ${f(saturated.latencyMs.p99, 1)} ms
         connect time for all gateways: ${f(saturated.connectSeconds, 1)} s
-        group commits:                 ${f(batches)} batches, mean ${f(meanBatchPacks)} packs, mean commit ${f(meanCommitMs, 1)} ms
+        group commits:                 ${commits({ batches: 0, packs: 0, seconds: 0 }, saturatedCommits)}
   (d) ingest at half load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
         PUBACK latency p50/p95/p99:    ${f(halfLoad.latencyMs.p50, 1)} / ${f(halfLoad.latencyMs.p95, 1)} / ${f(halfLoad.latencyMs.p99, 1)} ms  (target p99 ≤ 250 ms)
-        group commits:                 ${f(halfBatches)} batches, mean ${f((afterHalf.packs - beforeHalf.packs) / halfBatches)} packs, mean commit ${f((1000 * (afterHalf.seconds - beforeHalf.seconds)) / halfBatches, 1)} ms
+        group commits:                 ${commits(beforeHalf, afterHalf)}
   (e) broker alone at that half load:  PUBACK p50/p95/p99 ${f(aloneHalf.latencyMs.p50, 1)} / ${f(aloneHalf.latencyMs.p95, 1)} / ${f(aloneHalf.latencyMs.p99, 1)} ms (no database: the floor)
   ingest peak RSS:                     ${f(peakRss)} MB  (target ≤ 600 MB at 10,000 connections)
         after (c): RSS ${f(heapMb.rss)} MB; V8 heap ${f(heapMb.used)} MB used of ${f(heapMb.total)} MB; external ${f(heapMb.external)} MB

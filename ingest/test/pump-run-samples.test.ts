@@ -15,13 +15,15 @@ afterAll(async () => {
   await ingest?.close();
 });
 
-let sites: { gatewayId: string; siteId: string }[] = [];
-
-/** Readings of one battery channel at a site, written through the batch path. */
+/**
+ * Readings of one battery channel at a site, written through the batch path. Each value is its
+ * time plus `mark`, so a sample read back says which site it came from.
+ */
 async function write(
   site: { gatewayId: string; siteId: string },
   name: 'battery/voltage' | 'battery/current',
   at: number[],
+  mark: number,
 ) {
   await ingest.app.get(TelemetryBatchRepository).commit([
     {
@@ -36,24 +38,27 @@ async function write(
         key: null,
         t,
         valueType: 'number' as const,
-        // The value says where it came from: the time, plus .25 at the first site, .75 at the other.
-        value: t + (site === sites[0] ? 0.25 : 0.75),
+        value: t + mark,
         unit: name === 'battery/voltage' ? ('V' as const) : ('A' as const),
       })),
       rejects: [],
     },
   ]);
 }
+
 describe('samples for pump-run derivation', () => {
   it('gives each asked (site, channel) its own samples from its own time on, in time order', async () => {
-    sites = [await seedSite(database.db), await seedSite(database.db)];
+    const a = await seedSite(database.db);
+    const b = await seedSite(database.db);
     const t0 = Math.floor(Date.now() / 1000) - 3600;
     const times = [t0 + 300, t0, t0 + 600, t0 + 900];
-    for (const site of sites) {
-      await write(site, 'battery/voltage', times);
-      await write(site, 'battery/current', times);
+    for (const [site, mark] of [
+      [a, 0.25],
+      [b, 0.75],
+    ] as const) {
+      await write(site, 'battery/voltage', times, mark);
+      await write(site, 'battery/current', times, mark);
     }
-    const [a, b] = sites as [(typeof sites)[0], (typeof sites)[0]];
     const samples = await ingest.app.get(PumpRunsRepository).samples([
       { siteId: a.siteId, name: 'battery/voltage', from: new Date((t0 + 300) * 1000) },
       { siteId: b.siteId, name: 'battery/voltage', from: new Date((t0 + 600) * 1000) },

@@ -63,9 +63,9 @@ export class PumpRunsService {
 
     const changedSites = new Set<string>();
     // One pump's samples at a time: a run still open (a pump stuck on) re-derives from its
-    // start, so one pump can mean days of samples. Read for every pump at once, a 30-day demo
-    // backfill held 1.5 million rows together and ran ingest out of its heap (npm start,
-    // session 5); one pump's worth is what must fit.
+    // start, so one pump can mean days of samples. Read for every pump at once, npm start's
+    // 30-day demo backfill held 1.5 million rows together and ran ingest out of its heap; one
+    // pump's worth is what must fit.
     for (const pump of pumps) {
       const start = startOf(pump);
       const from = lookBack(start);
@@ -80,15 +80,13 @@ export class PumpRunsService {
         names.map((name) => ({ siteId: pump.siteId, name, from })),
         trx,
       );
-      const series = (siteId: string, name: string) => samples.get(`${siteId}\u0000${name}`) ?? [];
+      const series = (name: string) => samples.get(`${pump.siteId}\u0000${name}`) ?? [];
       const runs = derivePumpRuns({
-        running: series(pump.siteId, `pump/${pump.key}/running`),
-        current: series(pump.siteId, `pump/${pump.key}/current`),
-        flow: series(pump.siteId, `pump/${pump.key}/flow`),
-        batteryVoltage: series(pump.siteId, 'battery/voltage'),
-        tankVolume: pump.tank
-          ? tankVolumes(pump.tank, series(pump.siteId, `tank/${pump.tank.key}/level`))
-          : [],
+        running: series(`pump/${pump.key}/running`),
+        current: series(`pump/${pump.key}/current`),
+        flow: series(`pump/${pump.key}/flow`),
+        batteryVoltage: series('battery/voltage'),
+        tankVolume: pump.tank ? tankVolumes(pump.tank, series(`tank/${pump.tank.key}/level`)) : [],
         ratedCurrentA: pump.ratedCurrentA,
         maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
       }).filter((r) => r.startedAt * 1000 >= start.getTime());
