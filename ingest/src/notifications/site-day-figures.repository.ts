@@ -49,7 +49,7 @@ export class SiteDayFiguresRepository {
       }>`
         select c.name, c.unit, count(*)::int as samples, min(r.value) as min, max(r.value) as max,
                (array_agg(r.value order by r.time desc))[1] as last, max(r.time) as last_at
-        from readings r join channels c on c.id = r.channel_id
+        from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
         where r.site_id = ${siteId} and r.time > ${from} and r.time <= ${to}
           and c.value_kind = 'number' and r.value is not null
         group by c.name, c.unit

@@ -42,14 +42,16 @@ export class RuleDataRepository {
       value: number | null;
       text: string | null;
     }>`
+      -- Joining on site too lets the planner read only this site's channels; on id alone it
+      -- probed every site's channels for each evaluation.
       select c.name, c.value_kind as kind, extract(epoch from r.time)::float8 as t,
              r.value, r.text_value as text
-      from readings r join channels c on c.id = r.channel_id
+      from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
       where r.site_id = ${siteId} and r.time > ${rawFrom} and r.time <= ${now}
       union all
       select distinct on (c.name, date_bin(${`${window.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch'))
              c.name, c.value_kind, extract(epoch from r.time)::float8, r.value, r.text_value
-      from readings r join channels c on c.id = r.channel_id
+      from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
       where r.site_id = ${siteId} and r.time > ${tankFrom} and r.time <= ${rawFrom}
         and c.name like 'tank/%/level'
       order by 3`.execute(this.db);
