@@ -112,9 +112,21 @@ export class BucketsRepository {
       select x.site_id, x.channel_id, date_trunc('minute', x.time, 'UTC'), ${MINUTE_AGGREGATES}
       from (
         select ${SAMPLE_COLUMNS}
-        from readings r join channels c on c.id = r.channel_id
-        where r.time >= ${from}::timestamptz - ${SWITCH_MAX_GAP_SECONDS} * interval '1 second'
-          and r.time < ${to} and r.value is not null
+        from (
+          select r.site_id, r.channel_id, r.time, r.value from readings r
+          where r.time >= ${from} and r.time < ${to} and r.value is not null
+          union all
+          -- The only earlier sample lag() reads: each switch's last one before the range. Reading
+          -- the whole look-back for every channel scanned 11 minutes of rows to roll up one.
+          select p.site_id, p.channel_id, p.time, p.value
+          from channels sw cross join lateral (
+            select r.site_id, r.channel_id, r.time, r.value from readings r
+            where r.site_id = sw.site_id and r.channel_id = sw.id and r.value is not null
+              and r.time >= ${from}::timestamptz - ${SWITCH_MAX_GAP_SECONDS} * interval '1 second'
+              and r.time < ${from}
+            order by r.time desc limit 1) p
+          where sw.value_kind = 'boolean'
+        ) r join channels c on c.id = r.channel_id
         window w as (partition by r.site_id, r.channel_id order by r.time)
       ) x
       where x.time >= ${from}
