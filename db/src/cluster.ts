@@ -27,6 +27,8 @@ export interface ClusterOptions {
   password: string;
   /** Faster, non-durable settings for throw-away test clusters (fsync off). */
   ephemeral?: boolean;
+  /** More server settings (`name=value`), e.g. a benchmark loading pg_stat_statements. */
+  settings?: readonly string[];
   log?: (message: string) => void;
 }
 
@@ -187,6 +189,7 @@ export class PostgresCluster {
           // the default 1 GB, WAL volume forced checkpoints during full load, each followed by
           // a burst of full-page writes while gateways wait for commits. Checkpoints by time.
           ['-c max_wal_size=4GB', '-c checkpoint_timeout=15min']),
+      ...(this.options.settings ?? []).map((s) => `-c ${s}`),
     ].join(' ');
     this.log(`starting on 127.0.0.1:${port} (data in ${dataDir})`);
     const r = run(

@@ -13,7 +13,7 @@
  * at 10,000 connections; zero acknowledged records missing.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { readFileSync, rmSync } from 'node:fs';
+import { readFileSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
@@ -43,6 +43,9 @@ const WARMUP = Number(process.env.BENCH_WARMUP_SECONDS ?? 5);
 const OFFERED = Number(process.env.BENCH_OFFERED_PER_SECOND ?? 40_000);
 const COPY_ROWS = Number(process.env.BENCH_COPY_ROWS ?? 1_000_000);
 const RECORDS_PER_PACK = 8;
+// BENCH_PG_STATEMENTS=N: load pg_stat_statements and print the N statements that took the most
+// database time during (c) and (d), to see where PostgreSQL's share of the machine goes.
+const PG_STATEMENTS = Number(process.env.BENCH_PG_STATEMENTS ?? 0);
 
 interface GeneratorResult {
   connections: number;
@@ -128,6 +131,53 @@ function rssMb(pid: number): number {
   return Number(/VmRSS:\s+(\d+)/.exec(status)?.[1] ?? 0) / 1024;
 }
 
+/** CPU seconds used so far by a process (user + system), from /proc. */
+function cpuSeconds(pid: number): number {
+  try {
+    // Fields after the command name (which may hold spaces): state is the 3rd, utime the 14th.
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ');
+    return (Number(fields[11]) + Number(fields[12])) / 100;
+  } catch {
+    return 0; // exited
+  }
+}
+
+/** CPU seconds used so far by the PostgreSQL server: the postmaster and its children. */
+function postgresCpuSeconds(dataDir: string): number {
+  const postmaster = Number(readFileSync(join(dataDir, 'postmaster.pid'), 'utf8').split('\n')[0]);
+  let total = cpuSeconds(postmaster);
+  for (const entry of readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const ppid = Number(
+        readFileSync(`/proc/${entry}/stat`, 'utf8').split(') ')[1]!.split(' ')[1],
+      );
+      if (ppid === postmaster) total += cpuSeconds(Number(entry));
+    } catch {
+      // gone meanwhile
+    }
+  }
+  return total;
+}
+
+/** Runs `work` and returns its result with the ingest and PostgreSQL CPU it took, % of one core. */
+async function withCpu<T>(
+  ingestPid: number,
+  dataDir: string,
+  work: () => Promise<T>,
+): Promise<{ result: T; ingestCpu: number; postgresCpu: number }> {
+  const started = performance.now();
+  const ingest0 = cpuSeconds(ingestPid);
+  const pg0 = postgresCpuSeconds(dataDir);
+  const result = await work();
+  const seconds = (performance.now() - started) / 1000;
+  return {
+    result,
+    ingestCpu: (100 * (cpuSeconds(ingestPid) - ingest0)) / seconds,
+    postgresCpu: (100 * (postgresCpuSeconds(dataDir) - pg0)) / seconds,
+  };
+}
+
 async function stop(child: ChildProcess): Promise<void> {
   if (child.exitCode !== null) return;
   const exited = new Promise((r) => child.once('exit', r));
@@ -138,12 +188,16 @@ async function stop(child: ChildProcess): Promise<void> {
 
 // ---------------------------------------------------------------------------------------------
 const pgPort = await freePort();
+const pgDataDir = join(dataRoot(), `bench-${process.pid}-${pgPort}`);
 const cluster = new PostgresCluster({
-  dataDir: join(dataRoot(), `bench-${process.pid}-${pgPort}`),
+  dataDir: pgDataDir,
   port: pgPort,
   superuser: 'wellkept',
   password: 'wellkept-bench',
   log,
+  ...(PG_STATEMENTS > 0
+    ? { settings: ['shared_preload_libraries=pg_stat_statements', 'pg_stat_statements.track=all'] }
+    : {}),
 });
 const children: ChildProcess[] = [];
 const cleanUp = () => {
@@ -163,6 +217,24 @@ try {
   const pool = createPool(databaseUrl, { max: 2, applicationName: 'wellkept-bench' });
   const db = new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
   await migrateToLatest(db);
+  if (PG_STATEMENTS > 0) await sql`create extension if not exists pg_stat_statements`.execute(db);
+  const resetStatements = async () => {
+    if (PG_STATEMENTS > 0) await sql`select pg_stat_statements_reset()`.execute(db);
+  };
+  /** Prints the statements that took the most database time since the last reset, then resets. */
+  const topStatements = async (phase: string) => {
+    if (PG_STATEMENTS <= 0) return;
+    const { rows } = await sql<{ calls: number; total_ms: number; rows: number; query: string }>`
+      select calls::int, total_exec_time::float8 as total_ms, rows::int,
+             regexp_replace(query, ${'\\s+'}, ' ', 'g') as query
+      from pg_stat_statements order by total_exec_time desc limit ${PG_STATEMENTS}`.execute(db);
+    log(`database time by statement during ${phase}:`);
+    for (const r of rows)
+      log(
+        `  ${r.total_ms.toFixed(0).padStart(7)} ms ${String(r.calls).padStart(6)} calls ${String(r.rows).padStart(9)} rows  ${r.query.slice(0, 160)}`,
+      );
+    await resetStatements();
+  };
 
   // Gateways: one site each, one company.
   log(`seeding ${CONNECTIONS} sites and gateways`);
@@ -214,6 +286,7 @@ try {
   await stop(alone);
   rmSync(`${work}-alone.csv`, { force: true });
 
+  await topStatements('set-up');
   // (c) Ingest at a saturating rate.
   const mqttPort = await freePort();
   const httpPort = await freePort();
@@ -252,7 +325,10 @@ try {
   const rssTimer = setInterval(() => (peakRss = Math.max(peakRss, rssMb(ingest.pid!))), 500);
   log(`ingest: ${CONNECTIONS} connections offering ${OFFERED} packs/s for ${SECONDS} s`);
   const ackedFile = `${work}-acked.csv`;
-  const saturated = await runGenerator(`mqtt://127.0.0.1:${mqttPort}`, OFFERED, ackedFile);
+  const saturatedRun = await withCpu(ingest.pid!, pgDataDir, () =>
+    runGenerator(`mqtt://127.0.0.1:${mqttPort}`, OFFERED, ackedFile),
+  );
+  const saturated = saturatedRun.result;
 
   const metricsText = await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text();
   const metric = (name: string, text = metricsText) =>
@@ -262,8 +338,11 @@ try {
     batches: metric('wellkept_ingest_batch_packs_count', text),
     packs: metric('wellkept_ingest_batch_packs_sum', text),
     seconds: metric('wellkept_ingest_commit_seconds_sum', text),
+    sweeps: metric('wellkept_ingest_rollup_seconds_count', text),
+    sweepSeconds: metric('wellkept_ingest_rollup_seconds_sum', text),
   });
   const saturatedCommits = commitTotals(metricsText);
+  await topStatements('(c)');
   // Where the process's memory is, as it reports it (prom-client's default metrics).
   const heapMb = {
     used: metric('wellkept_ingest_nodejs_heap_size_used_bytes') / 2 ** 20,
@@ -296,6 +375,7 @@ try {
     }
   })();
   rmSync(ackedFile, { force: true });
+  await resetStatements(); // the check above is the bench's own work, not (d)'s
 
   // (d) Ingest at half the committed rate, once the packs still queued from (c) are committed:
   // otherwise (d) would measure draining (c)'s backlog, not a steady half load.
@@ -307,16 +387,24 @@ try {
     await new Promise((r) => setTimeout(r, 250));
   }
   log(`queue drained ${((performance.now() - drainStarted) / 1000).toFixed(1)} s after (c)`);
-  const half = Math.max(1, Math.round(saturated.ackedPerSecond / 2));
+  // BENCH_HALF_PER_SECOND: a fixed rate for (d) instead of half of (c), e.g. 4,000 (half the
+  // 8,000 packs/s target), to compare runs whose (c) differed.
+  const half =
+    Number(process.env.BENCH_HALF_PER_SECOND ?? 0) ||
+    Math.max(1, Math.round(saturated.ackedPerSecond / 2));
   log(`ingest at half load: ${half} packs/s`);
   const beforeHalf = commitTotals(
     await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text(),
   );
-  const halfLoad = await runGenerator(`mqtt://127.0.0.1:${mqttPort}`, half, `${work}-half.csv`);
+  const halfRun = await withCpu(ingest.pid!, pgDataDir, () =>
+    runGenerator(`mqtt://127.0.0.1:${mqttPort}`, half, `${work}-half.csv`),
+  );
+  const halfLoad = halfRun.result;
   const afterHalf = commitTotals(
     await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text(),
   );
   rmSync(`${work}-half.csv`, { force: true });
+  await topStatements('(d)');
   clearInterval(rssTimer);
   const rows = Number(
     (await sql<{ n: number }>`select count(*)::int as n from readings`.execute(db)).rows[0]!.n,
@@ -338,7 +426,8 @@ try {
   /** Group commits between two readings of ingest's counters, as one line of the report. */
   const commits = (from: ReturnType<typeof commitTotals>, to: ReturnType<typeof commitTotals>) => {
     const batches = to.batches - from.batches;
-    return `${f(batches)} batches, mean ${f((to.packs - from.packs) / batches)} packs, mean commit ${f((1000 * (to.seconds - from.seconds)) / batches, 1)} ms`;
+    const sweeps = `${f(to.sweeps - from.sweeps)} roll-up sweeps taking ${f(to.sweepSeconds - from.sweepSeconds, 1)} s in all`;
+    return `${f(batches)} batches, mean ${f((to.packs - from.packs) / batches)} packs, mean commit ${f((1000 * (to.seconds - from.seconds)) / batches, 1)} ms; ${sweeps}`;
   };
   const committed = saturated.ackedPerSecond;
   console.log(`
@@ -350,8 +439,8 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
         vs COPY ceiling (records):     ${f((100 * committed * RECORDS_PER_PACK) / copyRowsPerSecond, 1)} %
         PUBACK latency p50/p95/p99:    ${f(saturated.latencyMs.p50, 1)} / ${f(saturated.latencyMs.p95, 1)} / ${f(saturated.latencyMs.p99, 1)} ms
         connect time for all gateways: ${f(saturated.connectSeconds, 1)} s
-        group commits:                 ${commits({ batches: 0, packs: 0, seconds: 0 }, saturatedCommits)}
-  (d) ingest at half load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
+        group commits:                 ${commits({ batches: 0, packs: 0, seconds: 0, sweeps: 0, sweepSeconds: 0 }, saturatedCommits)}
+  (d) ingest at ${process.env.BENCH_HALF_PER_SECOND ? 'a fixed' : 'half'} load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
         PUBACK latency p50/p95/p99:    ${f(halfLoad.latencyMs.p50, 1)} / ${f(halfLoad.latencyMs.p95, 1)} / ${f(halfLoad.latencyMs.p99, 1)} ms  (target p99 ≤ 250 ms)
         group commits:                 ${commits(beforeHalf, afterHalf)}
   (e) broker alone at that half load:  PUBACK p50/p95/p99 ${f(aloneHalf.latencyMs.p50, 1)} / ${f(aloneHalf.latencyMs.p95, 1)} / ${f(aloneHalf.latencyMs.p99, 1)} ms (no database: the floor)
@@ -359,6 +448,7 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
         after (c): RSS ${f(heapMb.rss)} MB; V8 heap ${f(heapMb.used)} MB used of ${f(heapMb.total)} MB; external ${f(heapMb.external)} MB
   acknowledged packs (c):              ${f(missing.packs)}; records missing: ${missing.missing_records}  (target 0)
   readings stored in total:            ${f(rows)}; publish errors (c)/(d): ${saturated.errors}/${halfLoad.errors}
+  ingest CPU (c)/(d):                  ${f(saturatedRun.ingestCpu)} / ${f(halfRun.ingestCpu)} % of one core; PostgreSQL ${f(saturatedRun.postgresCpu)} / ${f(halfRun.postgresCpu)} % (2 cores in all)
   load generator CPU (a)/(c)/(d)/(e):  ${[brokerAlone, saturated, halfLoad, aloneHalf].map((r) => f(r.generatorCpuPercent)).join(' / ')} % of one core (it shares the machine)
 `);
 } finally {
