@@ -35,34 +35,42 @@ export class RuleDataRepository {
   ): Promise<SeriesMap> {
     const rawFrom = new Date(now.getTime() - window.rawSeconds * 1000);
     const tankFrom = new Date(now.getTime() - window.tankSeconds * 1000);
+    // One row per channel, its samples as JSON arrays in time order: parsing one row object per
+    // sample (~27,000 at a site reporting every minute) cost ~40 ms of the event loop per
+    // evaluation, JSON.parse of the same arrays ~5 ms. Values are float8 (booleans 0/1) or text.
     const { rows } = await sql<{
       name: string;
       kind: 'number' | 'boolean' | 'string';
-      t: number;
-      value: number | null;
-      text: string | null;
+      s: { t: number[]; v: (number | string | null)[] };
     }>`
-      -- Joining on site too lets the planner read only this site's channels; on id alone it
-      -- probed every site's channels for each evaluation.
-      select c.name, c.value_kind as kind, extract(epoch from r.time)::float8 as t,
-             r.value, r.text_value as text
-      from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
-      where r.site_id = ${siteId} and r.time > ${rawFrom} and r.time <= ${now}
-      union all
-      select distinct on (c.name, date_bin(${`${window.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch'))
-             c.name, c.value_kind, extract(epoch from r.time)::float8, r.value, r.text_value
-      from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
-      where r.site_id = ${siteId} and r.time > ${tankFrom} and r.time <= ${rawFrom}
-        and c.name like 'tank/%/level'
-      order by 3`.execute(this.db);
+      with samples as (
+        -- Joining on site too lets the planner read only this site's channels; on id alone it
+        -- probed every site's channels for each evaluation.
+        select c.name, c.value_kind, r.time, r.value, r.text_value
+        from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
+        where r.site_id = ${siteId} and r.time > ${rawFrom} and r.time <= ${now}
+        union all
+        select distinct on (c.name, date_bin(${`${window.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch'))
+               c.name, c.value_kind, r.time, r.value, r.text_value
+        from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
+        where r.site_id = ${siteId} and r.time > ${tankFrom} and r.time <= ${rawFrom}
+          and c.name like 'tank/%/level'
+      )
+      select name, value_kind as kind,
+             json_build_object(
+               't', array_agg(extract(epoch from time)::float8 order by time),
+               'v', case when value_kind = 'string' then to_json(array_agg(text_value order by time))
+                         else to_json(array_agg(value order by time)) end) as s
+      from samples group by name, value_kind`.execute(this.db);
     const series: Record<string, Sample<number | boolean | string>[]> = {};
-    for (const r of rows) {
-      let v: number | boolean | string | null;
-      if (r.kind === 'boolean') v = r.value === null ? null : r.value !== 0;
-      else if (r.kind === 'string') v = r.text;
-      else v = r.value;
-      if (v === null) continue;
-      (series[r.name] ??= []).push({ t: r.t, v });
+    for (const { name, kind, s } of rows) {
+      const samples: Sample<number | boolean | string>[] = [];
+      for (let i = 0; i < s.t.length; i++) {
+        const v = s.v[i];
+        if (v === null || v === undefined) continue;
+        samples.push({ t: s.t[i]!, v: kind === 'boolean' ? v !== 0 : v });
+      }
+      if (samples.length > 0) series[name] = samples;
     }
     return series;
   }
