@@ -37,6 +37,32 @@ export function sampleAtOrBefore<T>(samples: readonly Sample<T>[], t: number): S
   return best;
 }
 
+/**
+ * {@link sampleAtOrBefore} for many instants at once, in one pass over the samples instead of
+ * one per instant (a day of per-minute samples made the per-instant form quadratic: millions of
+ * comparisons per judgement). Same answers, ties included; neither argument need be sorted.
+ */
+export function samplesAtOrBefore<T>(
+  samples: readonly Sample<T>[],
+  times: readonly number[],
+): (Sample<T> | null)[] {
+  const sorted = sortSamples(samples); // stable: among equal times the first stays first
+  const order = times.map((_, i) => i).sort((a, b) => (times[a] as number) - (times[b] as number));
+  const out: (Sample<T> | null)[] = new Array<Sample<T> | null>(times.length).fill(null);
+  let best: Sample<T> | null = null;
+  let next = 0;
+  for (const i of order) {
+    const t = times[i] as number;
+    while (next < sorted.length && (sorted[next] as Sample<T>).t <= t) {
+      const s = sorted[next] as Sample<T>;
+      if (best === null || s.t > best.t) best = s;
+      next += 1;
+    }
+    out[i] = best;
+  }
+  return out;
+}
+
 /** The newest sample, or null for an empty series. */
 export function latestSample<T>(samples: readonly Sample<T>[]): Sample<T> | null {
   return sampleAtOrBefore(samples, Number.POSITIVE_INFINITY);

@@ -7,7 +7,7 @@
 import { measurementName } from '../telemetry/measurements.js';
 import { clearSkyPvWattsOnGrid } from '../sun/pv-output.js';
 import type { Sample } from '../series.js';
-import { sampleAtOrBefore } from '../series.js';
+import { samplesAtOrBefore } from '../series.js';
 import type { RuleDecision, RuleInput } from './types.js';
 import type { RuleParamsOverrides } from './defaults.js';
 import { ruleParamsFor } from './defaults.js';
@@ -32,20 +32,27 @@ function measuredPower(input: RuleInput): Sample[] {
     const times = [...new Set(perArray.flatMap((x) => x.amps.map((s) => s.t)))].sort(
       (a, b) => a - b,
     );
-    return times.map((t) => ({
+    const atTimes = perArray.map((x) => ({
+      amps: samplesAtOrBefore(x.amps, times),
+      volts: samplesAtOrBefore(x.volts, times),
+    }));
+    return times.map((t, i) => ({
       t,
-      v: perArray.reduce((sum, x) => {
-        const amps = sampleAtOrBefore(x.amps, t)?.v ?? 0;
-        const volts = sampleAtOrBefore(x.volts, t)?.v ?? 0;
+      v: atTimes.reduce((sum, x) => {
+        const amps = x.amps[i]?.v ?? 0;
+        const volts = x.volts[i]?.v ?? 0;
         return sum + Math.max(amps, 0) * Math.max(volts, 0);
       }, 0),
     }));
   }
   const current = numericSeries(input, 'battery/current');
-  const volts = numericSeries(input, 'battery/voltage');
-  return current.map((s) => ({
+  const volts = samplesAtOrBefore(
+    numericSeries(input, 'battery/voltage'),
+    current.map((s) => s.t),
+  );
+  return current.map((s, i) => ({
     t: s.t,
-    v: Math.max(s.v, 0) * (sampleAtOrBefore(volts, s.t)?.v ?? 0),
+    v: Math.max(s.v, 0) * (volts[i]?.v ?? 0),
   }));
 }
 

@@ -91,11 +91,18 @@ export function clearSkyPvWattsOnGrid(
   site: SiteLocation,
   gridSeconds = 300,
 ): (epochSeconds: number) => number {
-  const atGrid = new Map<number, number>();
+  const atGrid = gridPointsFor(arrays, site, gridSeconds);
   const exact = (g: number): number => {
     let w = atGrid.get(g);
     if (w === undefined) {
-      w = arrays.reduce((sum, a) => sum + clearSkyPvWatts(a, g, site), 0);
+      // One solar position for all the arrays: they share the site.
+      const sun = solarPosition(g, site);
+      const ghi = haurwitzClearSkyGhi(sun.zenithDegrees);
+      w = arrays.reduce(
+        (sum, a) => sum + expectedPvWatts(a, planeOfArrayIrradiance(ghi, sun, a)),
+        0,
+      );
+      if (atGrid.size >= GRID_POINTS_PER_PLACE) atGrid.delete(atGrid.keys().next().value!);
       atGrid.set(g, w);
     }
     return w;
@@ -107,4 +114,32 @@ export function clearSkyPvWattsOnGrid(
     const w1 = exact(g0 + gridSeconds);
     return w0 + ((w1 - w0) * (t - g0)) / gridSeconds;
   };
+}
+
+/**
+ * Grid points already computed, kept across calls for each set of arrays at each place: the
+ * value is a pure function of those, and a busy fleet re-judges every site every few minutes
+ * over nearly the same hours (re-running the solar position ~60 times a judgement was the
+ * largest part of the rules' time). Bounded: the places used least recently are forgotten first,
+ * and within a place the points computed longest ago (~8 h of 5-minute points are kept).
+ */
+const gridCache = new Map<string, Map<number, number>>();
+const GRID_PLACES = 12_000;
+const GRID_POINTS_PER_PLACE = 100;
+
+function gridPointsFor(
+  arrays: readonly PvArrayConfig[],
+  site: SiteLocation,
+  gridSeconds: number,
+): Map<number, number> {
+  const key = JSON.stringify([arrays, site, gridSeconds]);
+  let points = gridCache.get(key);
+  if (points) {
+    gridCache.delete(key); // re-inserted below: Map order is the least recently used first
+  } else {
+    points = new Map();
+    if (gridCache.size >= GRID_PLACES) gridCache.delete(gridCache.keys().next().value!);
+  }
+  gridCache.set(key, points);
+  return points;
 }

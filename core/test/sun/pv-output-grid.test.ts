@@ -43,4 +43,31 @@ describe('clear-sky output on a 5-minute grid', () => {
     expect(onGrid(noon)).toBe(exact);
     expect(exact).toBeGreaterThan(1000);
   });
+
+  it('keeps computed points across calls without mixing up arrays or places', () => {
+    const site = SITES[1]!;
+    const noon = Date.UTC(2026, 0, 15, 4) / 1000; // about noon at the southern site
+    const exactFor = (arrays: PvArrayConfig[], at = site) =>
+      arrays.reduce((s, a) => s + clearSkyPvWatts(a, noon, at), 0);
+    const first = clearSkyPvWattsOnGrid(ARRAYS, site)(noon);
+    const again = clearSkyPvWattsOnGrid(ARRAYS, site)(noon);
+    expect(again).toBe(first);
+    // Same place, other arrays (a re-rated array after an edit), and same arrays elsewhere.
+    const rerated = ARRAYS.map((a) => ({ ...a, ratedWatts: a.ratedWatts * 2 }));
+    expect(clearSkyPvWattsOnGrid(rerated, site)(noon)).toBe(exactFor(rerated));
+    expect(clearSkyPvWattsOnGrid(ARRAYS, SITES[2]!)(noon)).toBe(exactFor(ARRAYS, SITES[2]!));
+    expect(clearSkyPvWattsOnGrid(ARRAYS, site)(noon)).toBe(exactFor(ARRAYS));
+    expect(exactFor(rerated)).toBeGreaterThan(exactFor(ARRAYS));
+  });
+
+  it('stays correct past the points it keeps for one place (a day of 5-minute points)', () => {
+    const site = SITES[0]!;
+    const day = Date.UTC(2026, 5, 21) / 1000;
+    const onGrid = clearSkyPvWattsOnGrid(ARRAYS, site);
+    for (let pass = 0; pass < 2; pass++) {
+      for (let g = day; g < day + 86_400; g += 300) {
+        expect(onGrid(g)).toBe(ARRAYS.reduce((s, a) => s + clearSkyPvWatts(a, g, site), 0));
+      }
+    }
+  });
 });
