@@ -91,10 +91,13 @@ export async function claimDueMail(
           and next_attempt_at <= now()
           and (hold_until is null or hold_until <= now())
           and attempts < ${options.maxAttempts}
-        order by next_attempt_at
+        order by next_attempt_at, id
         limit ${options.limit}
         for update skip locked)
     returning id, to_address, subject, text_body, html_body, attempts`.execute(db);
+  // RETURNING comes in the table's physical order, not the subquery's: an alert's "resolved"
+  // mail could be sent before its "opened" one. Ids are the order the mails were written.
+  rows.sort((a, b) => a.id - b.id);
   return rows.map((r) => ({
     id: r.id,
     to: r.to_address,
