@@ -68,6 +68,36 @@ export function sunDay(
   options: SolarPositionOptions = {},
 ): SunDay {
   const dayStartT = startOfLocalDay(epochSeconds, site.timeZone);
+  const key = JSON.stringify([
+    site.latitudeDegrees,
+    site.longitudeDegrees,
+    site.elevationMetres ?? 0,
+    site.timeZone,
+    options,
+    dayStartT,
+  ]);
+  const known = sunDays.get(key);
+  if (known) return { ...known };
+  const found = computeSunDay(dayStartT, epochSeconds, site, options);
+  if (sunDays.size >= SUN_DAYS_KEPT) sunDays.delete(sunDays.keys().next().value!);
+  sunDays.set(key, found);
+  return { ...found };
+}
+
+/**
+ * Days already worked out, per place and day (a pure function of those): the rules ask for the
+ * last night at every judgement of every site, and each day costs ~70 solar positions, which
+ * made the night's window most of the low-charge rule's time. The oldest entries go first.
+ */
+const sunDays = new Map<string, SunDay>();
+const SUN_DAYS_KEPT = 50_000;
+
+function computeSunDay(
+  dayStartT: number,
+  epochSeconds: number,
+  site: SiteWithTimeZone,
+  options: SolarPositionOptions,
+): SunDay {
   const dayEndT = startOfNextLocalDay(epochSeconds, site.timeZone);
   let sunriseT: number | null = null;
   let sunsetT: number | null = null;
