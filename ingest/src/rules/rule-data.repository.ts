@@ -36,40 +36,53 @@ export class RuleDataRepository {
     const rawFrom = new Date(now.getTime() - window.rawSeconds * 1000);
     const tankFrom = new Date(now.getTime() - window.tankSeconds * 1000);
     // One row per channel, its samples as JSON arrays in time order: parsing one row object per
-    // sample (~27,000 at a site reporting every minute) cost ~40 ms of the event loop per
-    // evaluation, JSON.parse of the same arrays ~5 ms. Values are float8 (booleans 0/1) or text.
+    // sample (~30,000 at a site reporting every 30 s) cost ~40 ms of the event loop per
+    // evaluation, JSON.parse of the same arrays ~10 ms. Each channel's rows are read and sorted
+    // on their own (a lateral join on the primary key), which PostgreSQL does in about a fifth of
+    // the time of sorting all the site's rows together. Values are float8 (booleans 0/1) or text.
     const { rows } = await sql<{
       name: string;
       kind: 'number' | 'boolean' | 'string';
       s: { t: number[]; v: (number | string | null)[] };
     }>`
-      with samples as (
-        -- Joining on site too lets the planner read only this site's channels; on id alone it
-        -- probed every site's channels for each evaluation.
-        select c.name, c.value_kind, r.time, r.value, r.text_value
-        from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
-        where r.site_id = ${siteId} and r.time > ${rawFrom} and r.time <= ${now}
-        union all
-        select distinct on (c.name, date_bin(${`${window.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch'))
-               c.name, c.value_kind, r.time, r.value, r.text_value
-        from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
-        where r.site_id = ${siteId} and r.time > ${tankFrom} and r.time <= ${rawFrom}
-          and c.name like 'tank/%/level'
-      )
-      select name, value_kind as kind,
-             json_build_object(
-               't', array_agg(extract(epoch from time)::float8 order by time),
-               'v', case when value_kind = 'string' then to_json(array_agg(text_value order by time))
-                         else to_json(array_agg(value order by time)) end) as s
-      from samples group by name, value_kind`.execute(this.db);
+      select c.name, c.value_kind as kind, x.s
+      from channels c cross join lateral (
+        select count(*) as n,
+               json_build_object(
+                 't', array_agg(extract(epoch from y.time)::float8),
+                 'v', case when c.value_kind = 'string' then to_json(array_agg(y.text_value))
+                           else to_json(array_agg(y.value)) end) as s
+        from (
+          select r.time, r.value, r.text_value from readings r
+          where r.site_id = c.site_id and r.channel_id = c.id
+            and r.time > ${rawFrom} and r.time <= ${now}
+          union all
+          (select distinct on (b.bin) b.time, b.value, b.text_value
+           from (
+             select r.time, r.value, r.text_value,
+                    date_bin(${`${window.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch') as bin
+             from readings r
+             where c.name like 'tank/%/level' and r.site_id = c.site_id and r.channel_id = c.id
+               and r.time > ${tankFrom} and r.time <= ${rawFrom}) b
+           order by b.bin, b.time)
+          order by 1
+        ) y
+      ) x
+      where c.site_id = ${siteId} and x.n > 0`.execute(this.db);
     const series: Record<string, Sample<number | boolean | string>[]> = {};
     for (const { name, kind, s } of rows) {
       const samples: Sample<number | boolean | string>[] = [];
+      let sorted = true;
       for (let i = 0; i < s.t.length; i++) {
         const v = s.v[i];
         if (v === null || v === undefined) continue;
-        samples.push({ t: s.t[i]!, v: kind === 'boolean' ? v !== 0 : v });
+        const t = s.t[i]!;
+        if (samples.length > 0 && t < samples[samples.length - 1]!.t) sorted = false;
+        samples.push({ t, v: kind === 'boolean' ? v !== 0 : v });
       }
+      // array_agg keeps the order its input arrives in, which the sort above fixes; PostgreSQL
+      // does not promise it, so a different plan is caught here rather than trusted.
+      if (!sorted) samples.sort((a, b) => a.t - b.t);
       if (samples.length > 0) series[name] = samples;
     }
     return series;
