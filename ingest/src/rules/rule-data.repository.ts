@@ -80,8 +80,8 @@ export class RuleDataRepository {
         if (samples.length > 0 && t < samples[samples.length - 1]!.t) sorted = false;
         samples.push({ t, v: kind === 'boolean' ? v !== 0 : v });
       }
-      // array_agg keeps the order its input arrives in, which the sort above fixes; PostgreSQL
-      // does not promise it, so a different plan is caught here rather than trusted.
+      // array_agg keeps the order its input arrives in, which the query's `order by 1` sets;
+      // PostgreSQL does not promise it, so a different plan is caught here rather than trusted.
       if (!sorted) samples.sort((a, b) => a.t - b.t);
       if (samples.length > 0) series[name] = samples;
     }
