@@ -1,6 +1,7 @@
 /**
  * All rule evaluators, by alert kind, and one call that runs them all.
  */
+import type { MeasurementPattern } from '../telemetry/measurements.js';
 import type { AlertKind, RuleDecision, RuleInput } from './types.js';
 import type { RuleParamsOverrides } from './defaults.js';
 import { evaluateLowCharge } from './low-charge.js';
@@ -11,6 +12,25 @@ import { evaluateShortCycling } from './short-cycling.js';
 import { evaluateGatewaySilent } from './gateway-silent.js';
 import { evaluateWaterLow } from './water-low.js';
 import { evaluateNoCharge } from './no-charge.js';
+
+/**
+ * The measurements the evaluators read, and no others: a caller loading a site's samples for
+ * the rules needs only these (a site's other sensors, such as well level or line pressure, are
+ * for screens). The rules test checks the evaluators against this list.
+ */
+export const RULE_MEASUREMENTS: readonly MeasurementPattern[] = [
+  'battery/voltage',
+  'battery/current',
+  'battery/temperature',
+  'controller/stage',
+  'pv/<array>/voltage',
+  'pv/<array>/current',
+  'pump/<pump>/running',
+  'pump/<pump>/current',
+  'pump/<pump>/flow',
+  'tank/<tank>/level',
+  'float/<switch>/closed',
+];
 
 /** A rule evaluator: pure, from input and the site's overrides to one decision per subject. */
 export type RuleEvaluator = (input: RuleInput, overrides?: RuleParamsOverrides) => RuleDecision[];

@@ -1,5 +1,5 @@
 import { Inject, Injectable } from '@nestjs/common';
-import type { Sample, SeriesMap } from '@wellkept/core';
+import { RULE_MEASUREMENTS, type Sample, type SeriesMap } from '@wellkept/core';
 import { sql } from 'kysely';
 import { DATABASE, type Database } from '../database/database.js';
 
@@ -11,6 +11,9 @@ export interface DataWindow {
   tankSeconds: number;
   thinSeconds: number;
 }
+
+/** RULE_MEASUREMENTS as LIKE patterns: a site's other channels are never read for the rules. */
+const RULE_CHANNEL_PATTERNS = RULE_MEASUREMENTS.map((m) => m.replace(/<[^>]+>/g, '%'));
 
 export const DEFAULT_DATA_WINDOW: DataWindow = {
   rawSeconds: 28 * 3600,
@@ -68,7 +71,8 @@ export class RuleDataRepository {
           order by 1
         ) y
       ) x
-      where c.site_id = ${siteId} and x.n > 0`.execute(this.db);
+      where c.site_id = ${siteId} and c.name like any(${RULE_CHANNEL_PATTERNS}::text[])
+        and x.n > 0`.execute(this.db);
     const series: Record<string, Sample<number | boolean | string>[]> = {};
     for (const { name, kind, s } of rows) {
       const samples: Sample<number | boolean | string>[] = [];

@@ -73,11 +73,12 @@ beforeAll(async () => {
     [5 * 3600, 0.9],
   ]);
   await store(siteId, 'pressure/bladder', 'number', [[5000, 40]]); // only older than the window
+  await store(siteId, 'well/level', 'number', [[20, 31.5]]); // recent, but no rule reads it
   await store(otherSiteId, 'battery/voltage', 'number', [[10, 99]]);
 });
 
 describe('rule data series', () => {
-  it("returns each channel's samples in time order, typed by kind, within the window", async () => {
+  it("returns each rule channel's samples in time order, typed by kind, within the window", async () => {
     const series = await new RuleDataRepository(database.db).series(siteId, now, window);
     expect(series['battery/voltage']).toEqual([
       { t: nowT - 1800, v: 25.1 },
@@ -93,6 +94,7 @@ describe('rule data series', () => {
       { t: nowT - 100, v: 'absorption' },
     ]);
     expect(series).not.toHaveProperty('pressure/bladder');
+    expect(series).not.toHaveProperty('well/level');
   });
 
   it('thins older tank levels to one per interval and keeps them before the raw ones', async () => {
