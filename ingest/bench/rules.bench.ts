@@ -19,6 +19,7 @@ import { createPool, ensureTimePartitions, startThrowawayCluster, type DB } from
 import { Kysely, PostgresDialect, sql } from 'kysely';
 import copyStreams from 'pg-copy-streams';
 import { DEFAULT_DATA_WINDOW, RuleDataRepository } from '../src/rules/rule-data.repository.js';
+import { readRulesConfig } from '../src/rules/rules-config.js';
 import { DATA_KINDS } from '../src/rules/rules-evaluation.service.js';
 import { SiteConfigRepository } from '../src/rules/site-config.repository.js';
 import { Homestead } from '../test/rules/support/homestead-series.js';
@@ -27,7 +28,7 @@ import { createCompany, createSite } from '../test/rules/support/homestead-site.
 const SITES = Number(process.env.BENCH_RULES_SITES ?? 40);
 const INTERVAL_S = Number(process.env.BENCH_RULES_INTERVAL_S ?? 30);
 const ROUNDS = Number(process.env.BENCH_RULES_ROUNDS ?? 3);
-const MIN_INTERVAL_MS = Number(process.env.RULES_MIN_INTERVAL_MS ?? 120_000);
+const MIN_INTERVAL_MS = readRulesConfig(process.env).minIntervalMs;
 const HISTORY_S = 30 * 3600;
 const log = (m: string) => console.log(`[bench rules] ${m}`);
 
@@ -132,7 +133,7 @@ try {
       from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
       where r.site_id = ${siteId} and r.time > ${rawFrom} and r.time <= ${now}
       union all
-      select distinct on (c.name, date_bin('600 seconds'::interval, r.time, timestamptz 'epoch'))
+      select distinct on (c.name, date_bin(${`${DEFAULT_DATA_WINDOW.thinSeconds} seconds`}::interval, r.time, timestamptz 'epoch'))
              c.name, c.value_kind, extract(epoch from r.time)::float8, r.value, r.text_value
       from readings r join channels c on c.id = r.channel_id and c.site_id = r.site_id
       where r.site_id = ${siteId} and r.time > ${tankFrom} and r.time <= ${rawFrom}
