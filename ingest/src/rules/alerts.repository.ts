@@ -52,6 +52,18 @@ export class AlertsRepository {
     );
   }
 
+  /** Sites with an alert of this kind not yet cleared. */
+  async sitesWithActive(kind: AlertKind): Promise<Set<string>> {
+    const rows = await this.database
+      .selectFrom('alerts')
+      .select('site_id')
+      .distinct()
+      .where('kind', '=', kind)
+      .where('status', '<>', 'cleared')
+      .execute();
+    return new Set(rows.map((r) => r.site_id));
+  }
+
   async active(db: Database, siteId: string): Promise<ActiveAlert[]> {
     const rows = await db
       .selectFrom('alerts')

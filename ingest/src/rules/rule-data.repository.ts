@@ -93,6 +93,19 @@ export class RuleDataRepository {
   }
 
   /**
+   * Newest channel time of each site that has one, epoch seconds, from the channels' last
+   * values alone (written a few seconds behind the commits): one scan for a whole fleet.
+   */
+  async newestChannelTimes(siteIds: readonly string[]): Promise<Map<string, number>> {
+    if (siteIds.length === 0) return new Map();
+    const { rows } = await sql<{ site_id: string; t: number }>`
+      select site_id, extract(epoch from max(last_time))::float8 as t
+      from channels where site_id = any(${[...siteIds]}::uuid[]) and last_time is not null
+      group by site_id`.execute(this.db);
+    return new Map(rows.map((r) => [r.site_id, r.t]));
+  }
+
+  /**
    * Newest reading time at the site, epoch seconds: from the stored readings of the last two
    * days (one index probe per channel), else from the channels' last values (written a few
    * seconds behind the commits, and the only trace of older data).

@@ -15,6 +15,8 @@ import { AlertsRepository } from './alerts.repository.js';
 import { RULES_CONFIG, type RulesConfig } from './rules-config.js';
 import { DATA_KINDS, RulesEvaluationService } from './rules-evaluation.service.js';
 import { approximateLastSunrise } from './approximate-dawn.js';
+import { RuleDataRepository } from './rule-data.repository.js';
+import { sitesSurelyReporting } from './silence-screen.js';
 import { SiteConfigRepository } from './site-config.repository.js';
 
 /** How far the approximate sunrise may differ from the SPA's, seconds (with room to spare). */
@@ -27,10 +29,11 @@ const DAWN_SLACK_S = 600;
  *   day of back-filled packs costs one evaluation, not thousands; and at most once per
  *   RULES_MIN_INTERVAL_MS per site, so a fleet reporting every 30 s costs evaluations in
  *   proportion to its sites, not to its packs;
- * - on a tick (RULES_TICK_MS): gateway silence for every watched site, overnight sag once per
- *   night after each site's own sunrise (plus a grace for late data), and a full evaluation of
- *   sites that have had none for RULES_FULL_EVERY_MS (water low, not charging, held faults);
- *   then the morning summaries that have come due.
+ * - on a tick (RULES_TICK_MS): gateway silence for every watched site (evaluated only where
+ *   it may change something: silence-screen.ts), overnight sag once per night after each site's
+ *   own sunrise (plus a grace for late data), and a full evaluation of sites that have had none
+ *   for RULES_FULL_EVERY_MS (water low, not charging, held faults); then the morning summaries
+ *   that have come due.
  * Evaluations of one site never overlap, and at most RULES_CONCURRENCY sites run at once.
  */
 @Injectable()
@@ -55,6 +58,7 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
   constructor(
     private readonly evaluation: RulesEvaluationService,
     private readonly sites: SiteConfigRepository,
+    private readonly data: RuleDataRepository,
     private readonly alerts: AlertsRepository,
     private readonly summaries: MorningSummaryService,
     @Inject(RULES_CONFIG) private readonly config: RulesConfig,
@@ -155,10 +159,15 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
     const nowT = now.getTime() / 1000;
     const ids = await this.sites.watchedSiteIds();
     const configs = await this.sites.load(ids);
+    const [newestT, withOpenAlert] = await Promise.all([
+      this.data.newestChannelTimes(ids),
+      this.alerts.sitesWithActive('gateway_silent'),
+    ]);
+    const reporting = sitesSurelyReporting(configs, newestT, withOpenAlert, nowT);
     for (const [i, id] of ids.entries()) {
       // Let socket reads and commits (PUBACKs) run between slices of a large fleet.
       if (i % 200 === 199) await new Promise((resolve) => setImmediate(resolve));
-      const kinds = new Set<AlertKind>(['gateway_silent']);
+      const kinds = new Set<AlertKind>();
       if (nowT * 1000 - (this.lastFull.get(id) ?? -Infinity) >= this.config.fullEveryMs) {
         for (const k of DATA_KINDS) kinds.add(k);
       }
@@ -166,7 +175,10 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
       if (site?.config.battery && (await this.overnightDue(id, site.config, nowT))) {
         kinds.add('overnight_sag');
       }
-      this.request(id, [...kinds]);
+      // Every site's gateways are judged each round; a site surely reporting needs no
+      // evaluation for that alone (silence-screen.ts).
+      if (kinds.size > 0 || !reporting.has(id)) kinds.add('gateway_silent');
+      if (kinds.size > 0) this.request(id, [...kinds]);
     }
     // Wait for this round's evaluations, but at most a tick: at a busy fleet, commits keep some
     // site debounced or running at every moment, and a round that waited for a fully idle

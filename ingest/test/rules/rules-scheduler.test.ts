@@ -21,6 +21,8 @@ let quiet: TestSite;
 let quietClient: MqttClient;
 /** Evaluations that included the data rules, per site and when. */
 const dataRuns: { siteId: string; at: number }[] = [];
+/** Evaluations of gateway silence alone (the tick's round), per site. */
+const silenceRuns: { siteId: string; at: number }[] = [];
 
 beforeAll(async () => {
   catcher = await startMailCatcher();
@@ -33,6 +35,9 @@ beforeAll(async () => {
   const evaluate = rules.evaluation.evaluate.bind(rules.evaluation);
   rules.evaluation.evaluate = (siteId, kinds) => {
     if (kinds.includes('dry_run')) dataRuns.push({ siteId, at: Date.now() });
+    if (kinds.length === 1 && kinds[0] === 'gateway_silent') {
+      silenceRuns.push({ siteId, at: Date.now() });
+    }
     return evaluate(siteId, kinds);
   };
   const company = await createCompany(database.db);
@@ -102,5 +107,53 @@ describe('the rules scheduler', () => {
     expect(runs.length).toBeLessThanOrEqual(7);
     for (let i = 1; i < runs.length; i++)
       expect(runs[i]! - runs[i - 1]!).toBeGreaterThanOrEqual(250);
+  });
+
+  it('leaves a site that is surely reporting out of the silence round, and judges it once it is not', async () => {
+    const company = await createCompany(database.db);
+    const steady = await createSite(database.db, company.id, { name: 'Steady homestead' });
+    const client = await connectGateway(rules.mqttUrl, steady);
+    try {
+      // Back to real time (the first test moved the clock an hour on): ingest refuses readings
+      // from more than a few minutes in the future.
+      clock.set(Date.now());
+      const nowT = clock.now().getTime() / 1000;
+      await publishReadings(client, steady.gatewayId, [
+        { name: 'battery/voltage', t: nowT - 30, value: 25.4 },
+      ]);
+      // The channels' newest times are written a few seconds behind the commit.
+      const deadline = Date.now() + 15_000;
+      const written = () =>
+        database.db
+          .selectFrom('channels')
+          .select('last_time')
+          .where('site_id', '=', steady.id)
+          .where('last_time', 'is not', null)
+          .executeTakeFirst();
+      while (!(await written()) && Date.now() < deadline) {
+        await new Promise((r) => setTimeout(r, 100));
+      }
+      expect(await written()).toBeDefined();
+      // Its first round was a full evaluation; from then on, rounds every 150 ms.
+      await rules.scheduler.tick();
+      const from = Date.now();
+      await new Promise((r) => setTimeout(r, 1000));
+      await rules.scheduler.tick();
+      expect(silenceRuns.filter((r) => r.siteId === steady.id && r.at >= from)).toEqual([]);
+
+      // Ten minutes without data (silent after 5 intervals of 60 s), and no full evaluation
+      // due for an hour: only the silence round can notice.
+      clock.advance(600_000);
+      let alert = await silentAlert(steady.id);
+      const alertDeadline = Date.now() + 15_000;
+      while (!alert && Date.now() < alertDeadline) {
+        await new Promise((r) => setTimeout(r, 100));
+        alert = await silentAlert(steady.id);
+      }
+      expect(alert).toEqual({ kind: 'gateway_silent', status: 'open' });
+      expect(silenceRuns.some((r) => r.siteId === steady.id)).toBe(true);
+    } finally {
+      client.end(true);
+    }
   });
 });
