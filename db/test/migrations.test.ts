@@ -108,4 +108,26 @@ describe('migrations', () => {
       ),
     ]);
   });
+
+  it('leaves room on the pages of channels and gateways, whose last values are rewritten all the time', async () => {
+    const options = async () => {
+      const { rows } = await sql<{ name: string; options: string[] | null }>`
+        select relname as name, reloptions as options from pg_class
+         where relname in ('channels', 'gateways') order by 1`.execute(test.db);
+      return rows;
+    };
+    expect(await options()).toEqual([
+      { name: 'channels', options: ['fillfactor=50'] },
+      { name: 'gateways', options: ['fillfactor=50'] },
+    ]);
+    // Reverting it restores PostgreSQL's full pages.
+    const name = '20261203_1550_room_to_update_in_place';
+    await migrations[name]!.down!(test.db);
+    expect(await options()).toEqual([
+      { name: 'channels', options: null },
+      { name: 'gateways', options: null },
+    ]);
+    await migrations[name]!.up(test.db);
+    expect((await options()).map((o) => o.options)).toEqual([['fillfactor=50'], ['fillfactor=50']]);
+  });
 });

@@ -8,6 +8,7 @@ import * as mailWaitingForServer from './20261202_1400_mail_waiting_for_server.j
 import * as coveringBucketKeys from './20261202_1410_covering_bucket_keys.js';
 import * as tenMinuteBuckets from './20261202_1500_ten_minute_buckets.js';
 import * as readingsTimeIndex from './20261202_1510_readings_time_index.js';
+import * as roomToUpdateInPlace from './20261203_1550_room_to_update_in_place.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -23,4 +24,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_1410_covering_bucket_keys': coveringBucketKeys,
   '20261202_1500_ten_minute_buckets': tenMinuteBuckets,
   '20261202_1510_readings_time_index': readingsTimeIndex,
+  '20261203_1550_room_to_update_in_place': roomToUpdateInPlace,
 };
