@@ -1,4 +1,5 @@
 import { Injectable } from '@nestjs/common';
+import type { StoredTankDimensions } from '@wellkept/core';
 import type { Database } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { SessionUser } from '../access/session-user.js';
@@ -30,14 +31,10 @@ export interface FleetChannelRow {
   last_value: number | null;
 }
 
-export interface FleetTankRow {
+/** A storage tank with its dimensions as core reads them (`tankGeometryFrom`). */
+export interface FleetTankRow extends StoredTankDimensions {
   site_id: string;
   key: string;
-  geometry: 'vertical_cylinder' | 'horizontal_cylinder' | 'rectangular';
-  diameter_m: number | null;
-  length_m: number | null;
-  width_m: number | null;
-  height_m: number | null;
   sensor_offset_m: number;
 }
 
@@ -121,8 +118,9 @@ export class FleetRepository {
   async storageTanks(siteIds: string[]): Promise<FleetTankRow[]> {
     if (!siteIds.length) return [];
     const { rows } = await sql<FleetTankRow>`
-      select t.site_id, t.key, t.geometry, t.diameter_m, t.length_m, t.width_m, t.height_m,
-             t.sensor_offset_m
+      select t.site_id, t.key, t.geometry as shape, t.diameter_m as "diameterMetres",
+             t.length_m as "lengthMetres", t.width_m as "widthMetres",
+             t.height_m as "heightMetres", t.sensor_offset_m
         from tanks t
        where t.site_id = any(${siteIds}::uuid[])
          and t.kind = 'storage' and t.geometry is not null

@@ -4,7 +4,7 @@ import {
   estimateStateOfCharge,
   tankCapacityCubicMetres,
   tankHeightMetres,
-  type TankGeometry,
+  tankGeometryFrom,
   tankVolumeFromLevel,
 } from '@wellkept/core';
 import type { SessionUser } from '../access/session-user.js';
@@ -208,7 +208,7 @@ export class FleetService {
     channel: FleetChannelRow,
     dropPerDay: number | null,
   ): FleetSite['water'] {
-    const geometry = tankGeometry(tank);
+    const geometry = tankGeometryFrom(tank);
     if (!geometry || channel.last_value === null) return null;
     const volume = tankVolumeFromLevel(
       { key: tank.key, geometry, sensorOffsetMetres: tank.sensor_offset_m },
@@ -249,30 +249,6 @@ export class FleetService {
       channels.map((c) => [c.channelId, this.useCache.get(c.channelId)?.dropPerDay ?? null]),
     );
   }
-}
-
-export function tankGeometry(t: {
-  geometry: string | null;
-  diameter_m: number | null;
-  length_m: number | null;
-  width_m: number | null;
-  height_m: number | null;
-}): TankGeometry | null {
-  if (t.geometry === 'vertical_cylinder' && t.diameter_m && t.height_m) {
-    return { shape: 'vertical_cylinder', diameterMetres: t.diameter_m, heightMetres: t.height_m };
-  }
-  if (t.geometry === 'horizontal_cylinder' && t.diameter_m && t.length_m) {
-    return { shape: 'horizontal_cylinder', diameterMetres: t.diameter_m, lengthMetres: t.length_m };
-  }
-  if (t.geometry === 'rectangular' && t.length_m && t.width_m && t.height_m) {
-    return {
-      shape: 'rectangular',
-      lengthMetres: t.length_m,
-      widthMetres: t.width_m,
-      heightMetres: t.height_m,
-    };
-  }
-  return null;
 }
 
 function groupBy<T>(items: T[], key: (item: T) => string): Map<string, T[]> {

@@ -71,6 +71,45 @@ export type TankVolumeResult =
 /** How far outside the tank a depth may be before it is refused rather than clamped, metres. */
 export const TANK_LEVEL_CLAMP_LIMIT_METRES = 0.5;
 
+/** A tank's dimensions as stored, metres: each shape needs only some of them. */
+export interface StoredTankDimensions {
+  shape: TankGeometry['shape'] | null;
+  diameterMetres: number | null;
+  lengthMetres: number | null;
+  widthMetres: number | null;
+  heightMetres: number | null;
+}
+
+/**
+ * The geometry of a stored tank, or null when its shape is not given or lacks a dimension the
+ * shape needs (such a tank holds no water that can be counted).
+ */
+export function tankGeometryFrom(d: StoredTankDimensions): TankGeometry | null {
+  if (d.shape === 'vertical_cylinder' && d.diameterMetres && d.heightMetres) {
+    return {
+      shape: 'vertical_cylinder',
+      diameterMetres: d.diameterMetres,
+      heightMetres: d.heightMetres,
+    };
+  }
+  if (d.shape === 'horizontal_cylinder' && d.diameterMetres && d.lengthMetres) {
+    return {
+      shape: 'horizontal_cylinder',
+      diameterMetres: d.diameterMetres,
+      lengthMetres: d.lengthMetres,
+    };
+  }
+  if (d.shape === 'rectangular' && d.lengthMetres && d.widthMetres && d.heightMetres) {
+    return {
+      shape: 'rectangular',
+      lengthMetres: d.lengthMetres,
+      widthMetres: d.widthMetres,
+      heightMetres: d.heightMetres,
+    };
+  }
+  return null;
+}
+
 /**
  * Checks a tank geometry; returns a reason when a dimension is not a positive finite number.
  */

@@ -6,6 +6,7 @@ import {
   inchesToMetres,
   levelFromTankVolume,
   tankCapacityCubicMetres,
+  tankGeometryFrom,
   tankVolumeFromLevel,
 } from '../../src/index.js';
 
@@ -138,5 +139,64 @@ describe('vertical cylinder and rectangular tanks', () => {
         expect(volumeOrFail(tank, level as number)).toBeCloseTo(capacity * fraction, 9);
       }
     }
+  });
+});
+
+// Our own contract (no published value): which stored dimensions make a countable tank.
+describe('tankGeometryFrom', () => {
+  const none = { diameterMetres: null, lengthMetres: null, widthMetres: null, heightMetres: null };
+  it('takes the dimensions each shape needs and ignores the others', () => {
+    expect(
+      tankGeometryFrom({
+        ...none,
+        shape: 'vertical_cylinder',
+        diameterMetres: 2,
+        heightMetres: 2.4,
+        lengthMetres: 9,
+      }),
+    ).toEqual({ shape: 'vertical_cylinder', diameterMetres: 2, heightMetres: 2.4 });
+    expect(
+      tankGeometryFrom({
+        ...none,
+        shape: 'horizontal_cylinder',
+        diameterMetres: 1.2,
+        lengthMetres: 3,
+      }),
+    ).toEqual({ shape: 'horizontal_cylinder', diameterMetres: 1.2, lengthMetres: 3 });
+    expect(
+      tankGeometryFrom({
+        shape: 'rectangular',
+        diameterMetres: 5,
+        lengthMetres: 4,
+        widthMetres: 3,
+        heightMetres: 2,
+      }),
+    ).toEqual({ shape: 'rectangular', lengthMetres: 4, widthMetres: 3, heightMetres: 2 });
+  });
+  it('is null without a shape or without a dimension the shape needs', () => {
+    expect(
+      tankGeometryFrom({ ...none, shape: null, diameterMetres: 2, heightMetres: 2 }),
+    ).toBeNull();
+    expect(tankGeometryFrom({ ...none, shape: 'vertical_cylinder', diameterMetres: 2 })).toBeNull();
+    expect(
+      tankGeometryFrom({
+        ...none,
+        shape: 'horizontal_cylinder',
+        diameterMetres: 1.2,
+        heightMetres: 1,
+      }),
+    ).toBeNull();
+    expect(
+      tankGeometryFrom({ ...none, shape: 'rectangular', lengthMetres: 4, widthMetres: 3 }),
+    ).toBeNull();
+    expect(
+      tankGeometryFrom({
+        ...none,
+        shape: 'rectangular',
+        lengthMetres: 4,
+        widthMetres: 0,
+        heightMetres: 2,
+      }),
+    ).toBeNull();
   });
 });

@@ -1,7 +1,9 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { sql, type Kysely } from 'kysely';
+import { tankGeometryFrom, type TankConfig } from '@wellkept/core';
 import type { DB } from '@wellkept/db';
 import { DATABASE, type Database } from '../database/database.js';
+import { TANK_DIMENSION_COLUMNS } from '../database/tank-dimensions.js';
 import type { DerivedPumpRun, TimedValue } from './derive-pump-runs.js';
 
 export interface PumpForRuns {
@@ -9,16 +11,8 @@ export interface PumpForRuns {
   siteId: string;
   key: string;
   ratedCurrentA: number;
-  /** The storage tank this pump fills, if configured. */
-  tank: {
-    key: string;
-    geometry: 'vertical_cylinder' | 'horizontal_cylinder' | 'rectangular';
-    diameterM: number | null;
-    lengthM: number | null;
-    widthM: number | null;
-    heightM: number | null;
-    sensorOffsetM: number;
-  } | null;
+  /** The storage tank this pump fills, if configured with its shape. */
+  tank: TankConfig | null;
 }
 
 /** Pump runs and the pump, tank and sample data they are derived from. */
@@ -43,33 +37,24 @@ export class PumpRunsRepository {
         'p.key',
         'p.rated_current_a',
         't.key as tank_key',
-        't.geometry',
-        't.diameter_m',
-        't.length_m',
-        't.width_m',
-        't.height_m',
+        ...TANK_DIMENSION_COLUMNS,
         't.sensor_offset_m',
       ])
       .where('p.site_id', 'in', siteIds)
       .execute();
-    return rows.map((r) => ({
-      id: r.id,
-      siteId: r.site_id,
-      key: r.key,
-      ratedCurrentA: r.rated_current_a,
-      tank:
-        r.tank_key && r.geometry
-          ? {
-              key: r.tank_key,
-              geometry: r.geometry,
-              diameterM: r.diameter_m,
-              lengthM: r.length_m,
-              widthM: r.width_m,
-              heightM: r.height_m,
-              sensorOffsetM: r.sensor_offset_m ?? 0,
-            }
-          : null,
-    }));
+    return rows.map((r) => {
+      const geometry = r.tank_key ? tankGeometryFrom(r) : null;
+      return {
+        id: r.id,
+        siteId: r.site_id,
+        key: r.key,
+        ratedCurrentA: r.rated_current_a,
+        tank:
+          r.tank_key && geometry
+            ? { key: r.tank_key, geometry, sensorOffsetMetres: r.sensor_offset_m ?? 0 }
+            : null,
+      };
+    });
   }
 
   /** For each pump, the start of the run still open or ended within `gapSeconds` before `from`. */

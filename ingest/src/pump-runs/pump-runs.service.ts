@@ -1,5 +1,5 @@
 import { Inject, Injectable } from '@nestjs/common';
-import { tankVolumeFromLevel, type TankConfig, type TankGeometry } from '@wellkept/core';
+import { tankVolumeFromLevel, type TankConfig } from '@wellkept/core';
 import type { Logger } from 'pino';
 import type { Database } from '../database/database.js';
 import { LOGGER } from '../logging/logger.js';
@@ -105,32 +105,10 @@ export class PumpRunsService {
   }
 }
 
-function tankVolumes(
-  tank: NonNullable<PumpForRuns['tank']>,
-  levels: readonly TimedValue[],
-): TimedValue[] {
-  const geometry: TankGeometry | null =
-    tank.geometry === 'vertical_cylinder' && tank.diameterM && tank.heightM
-      ? { shape: 'vertical_cylinder', diameterMetres: tank.diameterM, heightMetres: tank.heightM }
-      : tank.geometry === 'horizontal_cylinder' && tank.diameterM && tank.lengthM
-        ? {
-            shape: 'horizontal_cylinder',
-            diameterMetres: tank.diameterM,
-            lengthMetres: tank.lengthM,
-          }
-        : tank.geometry === 'rectangular' && tank.lengthM && tank.widthM && tank.heightM
-          ? {
-              shape: 'rectangular',
-              lengthMetres: tank.lengthM,
-              widthMetres: tank.widthM,
-              heightMetres: tank.heightM,
-            }
-          : null;
-  if (!geometry) return [];
-  const config: TankConfig = { key: tank.key, geometry, sensorOffsetMetres: tank.sensorOffsetM };
+function tankVolumes(tank: TankConfig, levels: readonly TimedValue[]): TimedValue[] {
   const out: TimedValue[] = [];
   for (const s of levels) {
-    const volume = tankVolumeFromLevel(config, s.v);
+    const volume = tankVolumeFromLevel(tank, s.v);
     if (volume.ok) out.push({ t: s.t, v: volume.cubicMetres });
   }
   return out;

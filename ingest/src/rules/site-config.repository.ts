@@ -1,8 +1,14 @@
 import { Inject, Injectable } from '@nestjs/common';
-import type { AlertKind, RuleParamsOverrides, SiteConfig, TankGeometry } from '@wellkept/core';
+import {
+  tankGeometryFrom,
+  type AlertKind,
+  type RuleParamsOverrides,
+  type SiteConfig,
+} from '@wellkept/core';
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { DATABASE, type Database } from '../database/database.js';
+import { TANK_DIMENSION_COLUMNS } from '../database/tank-dimensions.js';
 
 /** What the rules need to know of a site besides its data. */
 export interface SiteForRules {
@@ -70,11 +76,7 @@ export class SiteConfigRepository {
               't.key',
               't.name',
               't.kind',
-              't.geometry',
-              't.diameter_m',
-              't.length_m',
-              't.width_m',
-              't.height_m',
+              ...TANK_DIMENSION_COLUMNS,
               't.sensor_offset_m',
             ])
             .whereRef('t.site_id', '=', 's.id'),
@@ -180,7 +182,7 @@ export class SiteConfigRepository {
         tanks: tanks
           .filter((t) => t.kind === 'storage')
           .flatMap((t) => {
-            const geometry = tankGeometry(t);
+            const geometry = tankGeometryFrom(t);
             if (!geometry) return [];
             names.set(`tank:${t.key}`, t.name);
             return [{ key: t.key, geometry, sensorOffsetMetres: t.sensor_offset_m }];
@@ -213,28 +215,4 @@ export class SiteConfigRepository {
     }
     return out;
   }
-}
-
-function tankGeometry(t: {
-  geometry: 'vertical_cylinder' | 'horizontal_cylinder' | 'rectangular' | null;
-  diameter_m: number | null;
-  length_m: number | null;
-  width_m: number | null;
-  height_m: number | null;
-}): TankGeometry | null {
-  if (t.geometry === 'vertical_cylinder' && t.diameter_m && t.height_m) {
-    return { shape: 'vertical_cylinder', diameterMetres: t.diameter_m, heightMetres: t.height_m };
-  }
-  if (t.geometry === 'horizontal_cylinder' && t.diameter_m && t.length_m) {
-    return { shape: 'horizontal_cylinder', diameterMetres: t.diameter_m, lengthMetres: t.length_m };
-  }
-  if (t.geometry === 'rectangular' && t.length_m && t.width_m && t.height_m) {
-    return {
-      shape: 'rectangular',
-      lengthMetres: t.length_m,
-      widthMetres: t.width_m,
-      heightMetres: t.height_m,
-    };
-  }
-  return null;
 }
