@@ -1,4 +1,5 @@
 import { useTestDatabase } from '@wellkept/db/testing';
+import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createCompany, createSite, createUser, signIn } from './support/fixtures.js';
 import { startTestApp, type TestApp } from './support/test-app.js';
@@ -8,6 +9,7 @@ const t = useTestDatabase('api_series');
 let app: TestApp;
 let cookie: string;
 let siteId: string;
+let companyId: string;
 const STEP_S = 300; // the site reports every 5 minutes
 const START = new Date('2025-01-01T00:00:00Z');
 const COUNT = 40 * 288; // 40 days of readings
@@ -15,6 +17,7 @@ const COUNT = 40 * 288; // 40 days of readings
 beforeAll(async () => {
   app = await startTestApp(t.url);
   const company = await createCompany(t.db);
+  companyId = company;
   siteId = await createSite(t.db, company, { reportingIntervalS: STEP_S });
   const admin = await createUser(t.db, company, 'admin');
   const voltage = await createChannel(t.db, siteId, 'battery/voltage', 'V');
@@ -45,10 +48,10 @@ function expectedFromRaw(from: Date, to: Date, stepS: number) {
   };
 }
 
-async function series(from: Date, to: Date, channels = 'battery/voltage') {
+async function series(from: Date, to: Date, channels = 'battery/voltage', site = siteId) {
   const res = await app.app.inject({
     method: 'GET',
-    url: `/api/sites/${siteId}/series`,
+    url: `/api/sites/${site}/series`,
     query: { channels, from: from.toISOString(), to: to.toISOString() },
     headers: { cookie },
   });
@@ -121,5 +124,39 @@ describe('series resolution', () => {
     });
     expect(res.statusCode).toBe(400);
     expect(res.json().error.fields[0].path).toBe('from');
+  });
+});
+
+describe('past the raw retention', () => {
+  it('reads a short range from the minute buckets once its day of raw readings is dropped', async () => {
+    // Six hours of readings every minute, long before the other site's, rolled up and then
+    // dropped as ingest drops a day past the raw retention (detach, drop).
+    const OLD = new Date('2024-06-01T00:00:00Z');
+    const oldSite = await createSite(t.db, companyId, { reportingIntervalS: 60 });
+    const voltage = await createChannel(t.db, oldSite, 'battery/voltage', 'V');
+    await insertRawReadings(t.db, oldSite, voltage, OLD, 360, 60);
+    await rollUpAll(t.db, oldSite, OLD, new Date(OLD.getTime() + 6 * 3600_000));
+    await sql`alter table readings detach partition readings_p20240601`.execute(t.db);
+    await sql`drop table readings_p20240601`.execute(t.db);
+
+    // Three hours at one-minute reporting would be 180 raw points: raw is gone, minutes remain.
+    const from = new Date(OLD.getTime() + 3600_000);
+    const res = await series(
+      from,
+      new Date(from.getTime() + 3 * 3600_000),
+      'battery/voltage',
+      oldSite,
+    );
+    expect(res.statusCode).toBe(200);
+    const body = res.json();
+    expect(body.resolution).toMatchObject({ source: 'minute', stepSeconds: 60 });
+    const [s] = body.series;
+    expect(s.t).toHaveLength(180);
+    expect(s.t[0]).toBe(from.getTime());
+    for (let i = 0; i < 180; i++) expect(s.mean[i]).toBeCloseTo(rawValue(60 + i), 9);
+
+    // Where raw readings are still kept, a short range still reads them.
+    const kept = await series(START, new Date(START.getTime() + 3 * 3600_000));
+    expect(kept.json().resolution).toMatchObject({ source: 'raw', stepSeconds: STEP_S });
   });
 });

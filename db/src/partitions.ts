@@ -32,3 +32,31 @@ export async function ensureTimePartitions(
   };
   return db.isTransaction ? create(db) : db.transaction().execute(create);
 }
+
+/** The UTC day a `readings` partition holds, from its name (`readings_pYYYYMMDD`), or null. */
+export function rawPartitionDay(name: string): Date | null {
+  const match = /^readings_p(\d{4})(\d{2})(\d{2})$/.exec(name);
+  return match
+    ? new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])))
+    : null;
+}
+
+/**
+ * Where raw readings begin: the first day of the oldest `readings` partition, or null when
+ * there is none. Ingest drops whole days past the raw retention, so from here on raw readings
+ * are complete; before it only the buckets remain.
+ */
+export async function rawReadingsKeptFrom(
+  db: Kysely<any>, // eslint-disable-line @typescript-eslint/no-explicit-any
+): Promise<Date | null> {
+  const { rows } = await sql<{ name: string }>`
+    select c.relname as name
+    from pg_inherits i join pg_class c on c.oid = i.inhrelid
+    where i.inhparent = 'readings'::regclass`.execute(db);
+  let oldest: Date | null = null;
+  for (const { name } of rows) {
+    const day = rawPartitionDay(name);
+    if (day && (!oldest || day < oldest)) oldest = day;
+  }
+  return oldest;
+}

@@ -1,5 +1,5 @@
 import { Injectable } from '@nestjs/common';
-import type { Database } from '@wellkept/db';
+import { rawReadingsKeptFrom, type Database } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { VisibleSite } from '../access/session-user.js';
 import { InjectDb } from '../database/database.module.js';
@@ -46,6 +46,11 @@ const BUCKET_SECONDS = {
 @Injectable()
 export class ReadingsRepository {
   constructor(@InjectDb() private readonly db: Database) {}
+
+  /** Where the raw readings kept begin (older days live on in the buckets only). */
+  rawKeptFrom(): Promise<Date | null> {
+    return rawReadingsKeptFrom(this.db);
+  }
 
   async channels(site: VisibleSite): Promise<ChannelRow[]> {
     return this.db

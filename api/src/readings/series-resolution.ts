@@ -48,9 +48,15 @@ export const MIN_POINTS_FOR_NATIVE = 700;
 /**
  * Picks the resolution of a series so each channel has at most 2,000 points (about 1,000 to
  * 2,000 for long ranges), and the number of rows read stays bounded whatever the range.
+ * `rawKept` is false when the range starts before the oldest raw readings kept (past the raw
+ * retention): then even a short range is read from the minute buckets, which outlive them.
  */
-export function pickResolution(spanSeconds: number, rawIntervalSeconds: number): SeriesResolution {
-  if (spanSeconds / rawIntervalSeconds <= MAX_POINTS) {
+export function pickResolution(
+  spanSeconds: number,
+  rawIntervalSeconds: number,
+  rawKept = true,
+): SeriesResolution {
+  if (rawKept && spanSeconds / rawIntervalSeconds <= MAX_POINTS) {
     return { source: 'raw', stepSeconds: rawIntervalSeconds, label: 'raw readings' };
   }
   let chosen = LADDER.find(([step]) => spanSeconds / step <= MAX_POINTS);

@@ -41,7 +41,12 @@ export class SeriesService {
     }
     const chosen = query.channels.map((n) => byName.get(n)!);
     const span = (query.to.getTime() - query.from.getTime()) / 1000;
-    const resolution = pickResolution(span, site.reportingIntervalS);
+    const rawFrom = await this.readings.rawKeptFrom();
+    const resolution = pickResolution(
+      span,
+      site.reportingIntervalS,
+      rawFrom !== null && query.from >= rawFrom,
+    );
     const rows = await this.readings.series(
       site,
       chosen.map((c) => c.id),

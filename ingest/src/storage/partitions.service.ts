@@ -4,7 +4,7 @@ import {
   type BeforeApplicationShutdown,
   type OnApplicationBootstrap,
 } from '@nestjs/common';
-import { ensureTimePartitions } from '@wellkept/db';
+import { ensureTimePartitions, rawPartitionDay } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { Logger } from 'pino';
 import { INGEST_CONFIG, type IngestConfig } from '../config/ingest-config.js';
@@ -78,9 +78,9 @@ export class PartitionsService implements OnApplicationBootstrap, BeforeApplicat
       where i.inhparent = 'readings'::regclass`.execute(this.db);
     const dropped: string[] = [];
     for (const { name } of rows) {
-      const match = /^readings_p(\d{4})(\d{2})(\d{2})$/.exec(name);
-      if (!match) continue;
-      const dayEnd = Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])) + DAY_MS;
+      const day = rawPartitionDay(name);
+      if (!day) continue;
+      const dayEnd = day.getTime() + DAY_MS;
       if (dayEnd > cutoff) continue;
       // CONCURRENTLY keeps writers to other partitions running while the partition detaches.
       await sql`alter table readings detach partition ${sql.table(name)} concurrently`.execute(
