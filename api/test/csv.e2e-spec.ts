@@ -209,6 +209,22 @@ describe('CSV export', () => {
     expect(back.body).toBe(exported.body);
   });
 
+  it('says when a range is older than the raw readings kept, rather than sending an empty file', async () => {
+    const res = await app.app.inject({
+      method: 'GET',
+      url: `/api/sites/${siteId}/readings.csv?from=2024-01-01T00:00:00Z&to=2024-01-02T00:00:00Z`,
+      headers: { cookie },
+    });
+    expect(res.statusCode).toBe(400);
+    const { error } = res.json();
+    expect(error.code).toBe('raw_readings_not_kept');
+    // The readings imported above (1 March 2025) are the oldest kept in this database.
+    expect(error.message).toContain('Raw readings before 2025-03-01 are no longer kept');
+    expect(error.fields).toEqual([
+      { path: 'to', message: 'must be after 2025-03-01, where the raw readings kept begin' },
+    ]);
+  });
+
   it('streams pump runs', async () => {
     const pump = await t.db
       .insertInto('pumps')

@@ -37,6 +37,16 @@ export class CsvService {
       throw badRequest('validation_failed', 'from must be before to', [
         { path: 'from', message: 'must be before to' },
       ]);
+    // Past the raw retention only the buckets remain: an empty file would read as "no data".
+    const rawFrom = await this.readings.rawKeptFrom();
+    if (rawFrom && query.to <= rawFrom) {
+      const day = rawFrom.toISOString().slice(0, 10);
+      throw badRequest(
+        'raw_readings_not_kept',
+        `Raw readings before ${day} are no longer kept (older days are dropped after the raw retention); export a range from ${day} on, or chart older days, which come from minute averages`,
+        [{ path: 'to', message: `must be after ${day}, where the raw readings kept begin` }],
+      );
+    }
     const all = await this.readings.channels(site);
     const chosen = query.channels ? all.filter((c) => query.channels!.includes(c.name)) : all;
     const unknown = (query.channels ?? []).filter((n) => !all.some((c) => c.name === n));
