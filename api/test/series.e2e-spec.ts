@@ -127,28 +127,39 @@ describe('series resolution', () => {
   });
 });
 
-describe('past the raw retention', () => {
-  it('reads a short range from the minute buckets once its day of raw readings is dropped', async () => {
-    // Six hours of readings every minute, long before the other site's, rolled up and then
-    // dropped as ingest drops a day past the raw retention (detach, drop).
-    const OLD = new Date('2024-06-01T00:00:00Z');
-    const oldSite = await createSite(t.db, companyId, { reportingIntervalS: 60 });
-    const voltage = await createChannel(t.db, oldSite, 'battery/voltage', 'V');
-    await insertRawReadings(t.db, oldSite, voltage, OLD, 360, 60);
-    await rollUpAll(t.db, oldSite, OLD, new Date(OLD.getTime() + 6 * 3600_000));
-    await sql`alter table readings detach partition readings_p20240601`.execute(t.db);
-    await sql`drop table readings_p20240601`.execute(t.db);
-
-    // Three hours at one-minute reporting would be 180 raw points: raw is gone, minutes remain.
-    const from = new Date(OLD.getTime() + 3600_000);
-    const res = await series(
-      from,
-      new Date(from.getTime() + 3 * 3600_000),
-      'battery/voltage',
-      oldSite,
+/**
+ * A site with six hours of readings every minute from `start`, rolled up, whose partitions of
+ * that time in the given tables are then dropped, as ingest drops them past a retention.
+ * Returns the site and the series of hours 1 to 4.
+ */
+async function oldSiteSeries(start: Date, droppedTables: ('readings' | 'minute_buckets')[]) {
+  const oldSite = await createSite(t.db, companyId, { reportingIntervalS: 60 });
+  const voltage = await createChannel(t.db, oldSite, 'battery/voltage', 'V');
+  await insertRawReadings(t.db, oldSite, voltage, start, 360, 60);
+  await rollUpAll(t.db, oldSite, start, new Date(start.getTime() + 6 * 3600_000));
+  for (const table of droppedTables) {
+    const month = table === 'minute_buckets' ? start.toISOString().slice(0, 8) + '01' : null;
+    const partition = `${table}_p${(month ?? start.toISOString().slice(0, 10)).replaceAll('-', '')}`;
+    await sql`alter table ${sql.table(table)} detach partition ${sql.table(partition)}`.execute(
+      t.db,
     );
-    expect(res.statusCode).toBe(200);
-    const body = res.json();
+    await sql`drop table ${sql.table(partition)}`.execute(t.db);
+  }
+  const from = new Date(start.getTime() + 3600_000);
+  const res = await series(
+    from,
+    new Date(from.getTime() + 3 * 3600_000),
+    'battery/voltage',
+    oldSite,
+  );
+  expect(res.statusCode).toBe(200);
+  return { from, body: res.json() };
+}
+
+describe('past the retentions', () => {
+  it('reads a short range from the minute buckets once its day of raw readings is dropped', async () => {
+    // Three hours at one-minute reporting would be 180 raw points: raw is gone, minutes remain.
+    const { from, body } = await oldSiteSeries(new Date('2024-06-01T00:00:00Z'), ['readings']);
     expect(body.resolution).toMatchObject({ source: 'minute', stepSeconds: 60 });
     const [s] = body.series;
     expect(s.t).toHaveLength(180);
@@ -158,5 +169,22 @@ describe('past the raw retention', () => {
     // Where raw readings are still kept, a short range still reads them.
     const kept = await series(START, new Date(START.getTime() + 3 * 3600_000));
     expect(kept.json().resolution).toMatchObject({ source: 'raw', stepSeconds: STEP_S });
+  });
+
+  it('reads the ten-minute buckets once the minute buckets of that month are dropped too', async () => {
+    const { from, body } = await oldSiteSeries(new Date('2023-03-01T00:00:00Z'), [
+      'readings',
+      'minute_buckets',
+    ]);
+    expect(body.resolution).toMatchObject({ source: 'ten_minute', stepSeconds: 600 });
+    const [s] = body.series;
+    expect(s.t).toHaveLength(18);
+    for (let k = 0; k < 18; k++) {
+      const values = Array.from({ length: 10 }, (_, j) => rawValue(60 + k * 10 + j));
+      expect(s.t[k]).toBe(from.getTime() + k * 600_000);
+      expect(s.mean[k]).toBeCloseTo(values.reduce((a, b) => a + b, 0) / 10, 9);
+      expect(s.min[k]).toBeCloseTo(Math.min(...values), 9);
+      expect(s.max[k]).toBeCloseTo(Math.max(...values), 9);
+    }
   });
 });

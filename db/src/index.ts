@@ -12,7 +12,13 @@ export {
 } from './cluster.js';
 export { localCluster } from './local-cluster.js';
 export { repoRoot, dataRoot } from './paths.js';
-export { ensureTimePartitions, rawPartitionDay, rawReadingsKeptFrom } from './partitions.js';
+export {
+  ensureTimePartitions,
+  keptFrom,
+  partitionEnd,
+  partitionStart,
+  partitionedTables,
+} from './partitions.js';
 export { newGatewaySecret, hashGatewaySecret, verifyGatewaySecret } from './gateway-secrets.js';
 export * from './mail/index.js';
 export { startThrowawayCluster, freePort, type ThrowawayCluster } from './throwaway-cluster.js';

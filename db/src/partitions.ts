@@ -33,30 +33,42 @@ export async function ensureTimePartitions(
   return db.isTransaction ? create(db) : db.transaction().execute(create);
 }
 
-/** The UTC day a `readings` partition holds, from its name (`readings_pYYYYMMDD`), or null. */
-export function rawPartitionDay(name: string): Date | null {
-  const match = /^readings_p(\d{4})(\d{2})(\d{2})$/.exec(name);
-  return match
-    ? new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3])))
-    : null;
+/**
+ * Where a partition of a time-partitioned table begins (UTC), from its name
+ * (`<table>_pYYYYMMDD`, as `ensure_time_partitions` names them), or null for another name.
+ */
+export function partitionStart(table: keyof typeof partitionedTables, name: string): Date | null {
+  const match = /^(.+)_p(\d{4})(\d{2})(\d{2})$/.exec(name);
+  if (!match || match[1] !== table) return null;
+  return new Date(Date.UTC(Number(match[2]), Number(match[3]) - 1, Number(match[4])));
+}
+
+/** Where the partition that begins at `start` ends (a day or a month later, by table). */
+export function partitionEnd(table: keyof typeof partitionedTables, start: Date): Date {
+  const end = new Date(start);
+  if (partitionedTables[table] === '1 month') end.setUTCMonth(end.getUTCMonth() + 1);
+  else end.setUTCDate(end.getUTCDate() + 1);
+  return end;
 }
 
 /**
- * Where raw readings begin: the first day of the oldest `readings` partition, or null when
- * there is none. Ingest drops whole days past the raw retention, so from here on raw readings
- * are complete; before it only the buckets remain.
+ * Where a time-partitioned table's data begin: the start of its oldest partition, or null when
+ * it has none. Ingest drops whole partitions past each retention (raw readings by day, minute
+ * buckets by month), so from here on the table is complete; before it only coarser buckets
+ * remain.
  */
-export async function rawReadingsKeptFrom(
+export async function keptFrom(
   db: Kysely<any>, // eslint-disable-line @typescript-eslint/no-explicit-any
+  table: keyof typeof partitionedTables,
 ): Promise<Date | null> {
   const { rows } = await sql<{ name: string }>`
     select c.relname as name
     from pg_inherits i join pg_class c on c.oid = i.inhrelid
-    where i.inhparent = 'readings'::regclass`.execute(db);
+    where i.inhparent = ${table}::regclass`.execute(db);
   let oldest: Date | null = null;
   for (const { name } of rows) {
-    const day = rawPartitionDay(name);
-    if (day && (!oldest || day < oldest)) oldest = day;
+    const start = partitionStart(table, name);
+    if (start && (!oldest || start < oldest)) oldest = start;
   }
   return oldest;
 }

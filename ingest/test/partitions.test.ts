@@ -1,6 +1,7 @@
 import { useTestDatabase } from '@wellkept/db/testing';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readIngestConfig } from '../src/config/ingest-config.js';
 import { PartitionsService } from '../src/storage/partitions.service.js';
 import { TelemetryBatchRepository } from '../src/storage/telemetry-batch.repository.js';
 import { BucketsRepository } from '../src/storage/buckets.repository.js';
@@ -112,5 +113,39 @@ describe('time partitions', () => {
           `readings_p${new Date(Date.now() - 89 * 86_400_000).toISOString().slice(0, 10).replaceAll('-', '')}`,
       ),
     ).toBe(true);
+  });
+
+  it('drops minute-bucket months older than their retention, whole, and keeps the rest', async () => {
+    const partitions = ingest.app.get(PartitionsService);
+    // 400 days kept (the harness, as the default): a month 500 days back goes, 300 days back stays.
+    const old = Date.now() - 500 * 86_400_000;
+    const recent = Date.now() - 300 * 86_400_000;
+    await partitions.ensureCovering(old, old + 1000);
+    await partitions.ensureCovering(recent, recent + 1000);
+    const monthOf = (ms: number) =>
+      `minute_buckets_p${new Date(ms).toISOString().slice(0, 7).replace('-', '')}01`;
+    const exists = async (name: string) =>
+      (await sql<{ r: string | null }>`select to_regclass(${name})::text as r`.execute(database.db))
+        .rows[0]?.r;
+    expect(await exists(monthOf(old))).toBe(monthOf(old));
+    const dropped = await partitions.dropExpired();
+    expect(dropped).toContain(monthOf(old));
+    expect(await exists(monthOf(old))).toBeNull();
+    expect(dropped).not.toContain(monthOf(recent));
+    expect(await exists(monthOf(recent))).toBe(monthOf(recent));
+  });
+});
+
+describe('retention settings', () => {
+  it('refuses minute buckets kept for less time than the raw readings they are rebuilt from', () => {
+    expect(() =>
+      readIngestConfig({
+        DATABASE_URL: 'postgres://localhost/x',
+        INGEST_RAW_RETENTION_DAYS: '120',
+        INGEST_MINUTE_RETENTION_DAYS: '60',
+      }),
+    ).toThrow(/INGEST_MINUTE_RETENTION_DAYS must be at least INGEST_RAW_RETENTION_DAYS/);
+    const config = readIngestConfig({ DATABASE_URL: 'postgres://localhost/x' });
+    expect([config.rawRetentionDays, config.minuteRetentionDays]).toEqual([90, 400]);
   });
 });

@@ -1,5 +1,5 @@
 import { Injectable } from '@nestjs/common';
-import { rawReadingsKeptFrom, type Database } from '@wellkept/db';
+import { keptFrom, type Database } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { VisibleSite } from '../access/session-user.js';
 import { InjectDb } from '../database/database.module.js';
@@ -49,7 +49,12 @@ export class ReadingsRepository {
 
   /** Where the raw readings kept begin (older days live on in the buckets only). */
   rawKeptFrom(): Promise<Date | null> {
-    return rawReadingsKeptFrom(this.db);
+    return keptFrom(this.db, 'readings');
+  }
+
+  /** Where the minute buckets kept begin (older months live on in coarser buckets). */
+  minutesKeptFrom(): Promise<Date | null> {
+    return keptFrom(this.db, 'minute_buckets');
   }
 
   async channels(site: VisibleSite): Promise<ChannelRow[]> {

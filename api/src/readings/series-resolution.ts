@@ -48,18 +48,22 @@ export const MIN_POINTS_FOR_NATIVE = 700;
 /**
  * Picks the resolution of a series so each channel has at most 2,000 points (about 1,000 to
  * 2,000 for long ranges), and the number of rows read stays bounded whatever the range.
- * `rawKept` is false when the range starts before the oldest raw readings kept (past the raw
- * retention): then even a short range is read from the minute buckets, which outlive them.
+ * `finest` is the finest source kept for the whole range: raw readings and minute buckets are
+ * dropped after their retentions, and a range that starts before them reads the next kept one,
+ * however short it is.
  */
 export function pickResolution(
   spanSeconds: number,
   rawIntervalSeconds: number,
-  rawKept = true,
+  finest: 'raw' | 'minute' | 'ten_minute' = 'raw',
 ): SeriesResolution {
-  if (rawKept && spanSeconds / rawIntervalSeconds <= MAX_POINTS) {
+  if (finest === 'raw' && spanSeconds / rawIntervalSeconds <= MAX_POINTS) {
     return { source: 'raw', stepSeconds: rawIntervalSeconds, label: 'raw readings' };
   }
-  let chosen = LADDER.find(([step]) => spanSeconds / step <= MAX_POINTS);
+  const finestSeconds = finest === 'raw' ? 0 : SOURCE_SECONDS[finest];
+  let chosen = LADDER.find(
+    ([step, source]) => SOURCE_SECONDS[source] >= finestSeconds && spanSeconds / step <= MAX_POINTS,
+  );
   if (!chosen) {
     const weeks = Math.ceil(spanSeconds / MAX_POINTS / (7 * 86400));
     chosen = [weeks * 7 * 86400, 'day'];

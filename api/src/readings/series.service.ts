@@ -41,11 +41,15 @@ export class SeriesService {
     }
     const chosen = query.channels.map((n) => byName.get(n)!);
     const span = (query.to.getTime() - query.from.getTime()) / 1000;
-    const rawFrom = await this.readings.rawKeptFrom();
+    const [rawFrom, minutesFrom] = await Promise.all([
+      this.readings.rawKeptFrom(),
+      this.readings.minutesKeptFrom(),
+    ]);
+    const kept = (from: Date | null) => from !== null && query.from >= from;
     const resolution = pickResolution(
       span,
       site.reportingIntervalS,
-      rawFrom !== null && query.from >= rawFrom,
+      kept(rawFrom) ? 'raw' : kept(minutesFrom) ? 'minute' : 'ten_minute',
     );
     const rows = await this.readings.series(
       site,

@@ -37,6 +37,11 @@ const ingestEnv = z
     INGEST_QUEUE_MAX_RECORDS: positiveInt.default(200_000),
     /** Raw readings are kept this many days, then dropped by whole partitions. */
     INGEST_RAW_RETENTION_DAYS: z.coerce.number().int().min(31).max(3650).default(90),
+    /**
+     * Minute buckets are kept this many days, then dropped by whole months; charts of older
+     * days read the ten-minute buckets, which are kept with the hour and day buckets.
+     */
+    INGEST_MINUTE_RETENTION_DAYS: z.coerce.number().int().min(31).max(36_500).default(400),
     /** How often the bucket and pump-run sweep runs, milliseconds. */
     INGEST_ROLLUP_INTERVAL_MS: z.coerce.number().int().min(100).max(600_000).default(10_000),
     /** How often gateway last-seen times and channel last values are written, milliseconds. */
@@ -85,6 +90,11 @@ const ingestEnv = z
   .refine((e) => e.INGEST_QUEUE_MAX_RECORDS >= e.INGEST_BATCH_MAX_RECORDS, {
     message: 'INGEST_QUEUE_MAX_RECORDS must be at least INGEST_BATCH_MAX_RECORDS',
     path: ['INGEST_QUEUE_MAX_RECORDS'],
+  })
+  // Late raw rows recompute their minutes, and those their hours: the minutes must outlive them.
+  .refine((e) => e.INGEST_MINUTE_RETENTION_DAYS >= e.INGEST_RAW_RETENTION_DAYS, {
+    message: 'INGEST_MINUTE_RETENTION_DAYS must be at least INGEST_RAW_RETENTION_DAYS',
+    path: ['INGEST_MINUTE_RETENTION_DAYS'],
   });
 
 /** The validated, typed settings of one ingest process. */
@@ -103,6 +113,7 @@ export interface IngestConfig {
   queueMaxRecords: number;
   commitConcurrency: number;
   rawRetentionDays: number;
+  minuteRetentionDays: number;
   rollupIntervalMs: number;
   lastSeenIntervalMs: number;
   dbPoolSize: number;
@@ -146,6 +157,7 @@ export function readIngestConfig(env: NodeJS.ProcessEnv = process.env): IngestCo
     queueMaxRecords: e.INGEST_QUEUE_MAX_RECORDS,
     commitConcurrency: e.INGEST_COMMIT_CONCURRENCY,
     rawRetentionDays: e.INGEST_RAW_RETENTION_DAYS,
+    minuteRetentionDays: e.INGEST_MINUTE_RETENTION_DAYS,
     rollupIntervalMs: e.INGEST_ROLLUP_INTERVAL_MS,
     lastSeenIntervalMs: e.INGEST_LAST_SEEN_INTERVAL_MS,
     dbPoolSize: e.INGEST_DB_POOL_SIZE,

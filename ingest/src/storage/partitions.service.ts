@@ -4,7 +4,7 @@ import {
   type BeforeApplicationShutdown,
   type OnApplicationBootstrap,
 } from '@nestjs/common';
-import { ensureTimePartitions, rawPartitionDay } from '@wellkept/db';
+import { ensureTimePartitions, partitionEnd, partitionStart } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { Logger } from 'pino';
 import { INGEST_CONFIG, type IngestConfig } from '../config/ingest-config.js';
@@ -20,8 +20,8 @@ const MAINTENANCE_INTERVAL_MS = 3_600_000;
 
 /**
  * Keeps the time partitions of `readings` (daily) and `minute_buckets` (monthly) ready ahead of
- * the data, and drops raw partitions older than the retention (whole partitions: no DELETE, no
- * bloat). The writer also asks for partitions covering each batch, so a record never meets a
+ * the data, and drops partitions older than each table's retention (whole partitions: no
+ * DELETE, no bloat). The writer also asks for partitions covering each batch, so a record never meets a
  * missing partition even if the hourly maintenance has not run yet.
  */
 @Injectable()
@@ -50,11 +50,11 @@ export class PartitionsService implements OnApplicationBootstrap, BeforeApplicat
     clearInterval(this.timer);
   }
 
-  /** Creates what is missing around now and drops raw partitions past the retention. */
+  /** Creates what is missing around now and drops partitions past their retention. */
   async maintain(now = Date.now()): Promise<void> {
     await this.ensureCovering(now - BEHIND_DAYS * DAY_MS, now + AHEAD_DAYS * DAY_MS);
     const dropped = await this.dropExpired(now);
-    if (dropped.length > 0) this.logger.info({ dropped }, 'dropped expired raw partitions');
+    if (dropped.length > 0) this.logger.info({ dropped }, 'dropped expired partitions');
   }
 
   /** Makes sure partitions exist for every instant in [fromMs, toMs]. Cheap when they do. */
@@ -69,27 +69,34 @@ export class PartitionsService implements OnApplicationBootstrap, BeforeApplicat
     this.coveredTo = to.getTime();
   }
 
-  /** Detaches and drops `readings` partitions whose whole day is older than the retention. */
+  /**
+   * Detaches and drops the partitions wholly older than their table's retention: `readings` by
+   * day (INGEST_RAW_RETENTION_DAYS), `minute_buckets` by month (INGEST_MINUTE_RETENTION_DAYS).
+   */
   async dropExpired(now = Date.now()): Promise<string[]> {
-    const cutoff = now - this.config.rawRetentionDays * DAY_MS;
-    const { rows } = await sql<{ name: string }>`
-      select c.relname as name
-      from pg_inherits i join pg_class c on c.oid = i.inhrelid
-      where i.inhparent = 'readings'::regclass`.execute(this.db);
     const dropped: string[] = [];
-    for (const { name } of rows) {
-      const day = rawPartitionDay(name);
-      if (!day) continue;
-      const dayEnd = day.getTime() + DAY_MS;
-      if (dayEnd > cutoff) continue;
-      // CONCURRENTLY keeps writers to other partitions running while the partition detaches.
-      await sql`alter table readings detach partition ${sql.table(name)} concurrently`.execute(
-        this.db,
-      );
-      await sql`drop table ${sql.table(name)}`.execute(this.db);
-      dropped.push(name);
+    const retentions = [
+      ['readings', this.config.rawRetentionDays],
+      ['minute_buckets', this.config.minuteRetentionDays],
+    ] as const;
+    for (const [table, days] of retentions) {
+      const cutoff = now - days * DAY_MS;
+      const { rows } = await sql<{ name: string }>`
+        select c.relname as name
+        from pg_inherits i join pg_class c on c.oid = i.inhrelid
+        where i.inhparent = ${table}::regclass`.execute(this.db);
+      for (const { name } of rows) {
+        const start = partitionStart(table, name);
+        if (!start || partitionEnd(table, start).getTime() > cutoff) continue;
+        // CONCURRENTLY keeps writers to other partitions running while the partition detaches.
+        await sql`alter table ${sql.table(table)} detach partition ${sql.table(name)} concurrently`.execute(
+          this.db,
+        );
+        await sql`drop table ${sql.table(name)}`.execute(this.db);
+        dropped.push(name);
+      }
+      if (dropped.length > 0) this.coveredFrom = Math.max(this.coveredFrom, cutoff);
     }
-    if (dropped.length > 0) this.coveredFrom = Math.max(this.coveredFrom, cutoff);
     return dropped;
   }
 }

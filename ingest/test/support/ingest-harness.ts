@@ -28,6 +28,7 @@ export function testConfig(
     queueMaxRecords: 50_000,
     commitConcurrency: 2,
     rawRetentionDays: 90,
+    minuteRetentionDays: 400,
     rollupIntervalMs: 600_000,
     lastSeenIntervalMs: 200,
     dbPoolSize: 4,
