@@ -1,3 +1,4 @@
+import { ensureTimePartitions } from '@wellkept/db';
 import { useTestDatabase } from '@wellkept/db/testing';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -133,6 +134,92 @@ describe('time partitions', () => {
     expect(await exists(monthOf(old))).toBeNull();
     expect(dropped).not.toContain(monthOf(recent));
     expect(await exists(monthOf(recent))).toBe(monthOf(recent));
+  });
+});
+
+describe('history from before every partition', () => {
+  it('rolls up late minutes of a month that has no minute partition (a CSV import of an old logger)', async () => {
+    // Ingest has been rolling up closed minutes for a while (its watermark is now)...
+    await sql`
+      insert into rollup_state (name, watermark) values ('minute', date_trunc('minute', now()))
+      on conflict (name) do nothing`.execute(database.db);
+    // ...when the API's CSV import writes history: raw rows (their day's partition made for
+    // them) and a pending mark per minute, for a month long before any minute partition.
+    const { siteId } = await seedSite(database.db);
+    const { rows } = await sql<{ id: number }>`
+      insert into channels (site_id, name, unit, value_kind)
+      values (${siteId}, 'battery/voltage', 'V', 'number') returning id`.execute(database.db);
+    const minute = new Date('2023-05-10T08:30:00Z');
+    const month = 'minute_buckets_p20230501';
+    expect(
+      (
+        await sql<{ r: string | null }>`select to_regclass(${month})::text as r`.execute(
+          database.db,
+        )
+      ).rows[0]?.r,
+    ).toBeNull();
+    await ensureTimePartitions(
+      database.db,
+      'readings',
+      minute,
+      new Date(minute.getTime() + 60_000),
+    );
+    await sql`
+      insert into readings (site_id, channel_id, time, value)
+      values (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 10_000)}, 25.2),
+             (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 40_000)}, 25.6)`.execute(
+      database.db,
+    );
+    await sql`insert into rollup_pending (site_id, minute) values (${siteId}, ${minute})`.execute(
+      database.db,
+    );
+
+    const sweep = await ingest.sweep();
+    expect(sweep.lateMinutes).toBeGreaterThanOrEqual(1);
+    const bucket = async (table: 'minute_buckets' | 'hour_buckets', start: Date) =>
+      database.db
+        .selectFrom(table)
+        .select(['sample_count', 'min', 'max'])
+        .where('site_id', '=', siteId)
+        .where('bucket_start', '=', start)
+        .executeTakeFirst();
+    expect(await bucket('minute_buckets', minute)).toEqual({
+      sample_count: 2,
+      min: 25.2,
+      max: 25.6,
+    });
+    expect(await bucket('hour_buckets', new Date('2023-05-10T08:00:00Z'))).toEqual({
+      sample_count: 2,
+      min: 25.2,
+      max: 25.6,
+    });
+  });
+});
+
+describe('first roll-up of old history', () => {
+  it('rolls up closed minutes of a month that has no minute partition yet', async () => {
+    // A first sweep starts at the oldest reading; history imported before it can be years old.
+    const { siteId } = await seedSite(database.db);
+    const { rows } = await sql<{ id: number }>`
+      insert into channels (site_id, name, unit, value_kind)
+      values (${siteId}, 'battery/voltage', 'V', 'number') returning id`.execute(database.db);
+    const minute = new Date('2022-07-04T12:00:00Z');
+    await ensureTimePartitions(
+      database.db,
+      'readings',
+      minute,
+      new Date(minute.getTime() + 60_000),
+    );
+    await sql`
+      insert into readings (site_id, channel_id, time, value)
+      values (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 5_000)}, 24.9)`.execute(
+      database.db,
+    );
+    const buckets = ingest.app.get(BucketsRepository);
+    const written = await database.db
+      .transaction()
+      .execute((trx) => buckets.rollUpMinutes(trx, minute, new Date(minute.getTime() + 60_000)));
+    expect(written).toBe(1);
   });
 });
 

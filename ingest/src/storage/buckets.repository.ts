@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { sql, type Kysely, type RawBuilder } from 'kysely';
-import type { DB } from '@wellkept/db';
+import { ensureTimePartitions, type DB } from '@wellkept/db';
 import { SWITCH_MAX_GAP_SECONDS } from './rollup-timing.js';
 
 type Tx = Kysely<DB>;
@@ -107,6 +107,9 @@ const UTC_TIERS: readonly {
 export class BucketsRepository {
   /** Minutes [from, to) of every site, from raw rows. Returns the buckets written. */
   async rollUpMinutes(trx: Tx, from: Date, to: Date): Promise<number> {
+    // A first sweep starts at the oldest reading, which history imported from a file can put
+    // before any minute partition (they are made a month back from now).
+    await ensureTimePartitions(trx, 'minute_buckets', from, to);
     const result = await sql`
       insert into minute_buckets (${BUCKET_COLUMNS})
       select x.site_id, x.channel_id, date_trunc('minute', x.time, 'UTC'), ${MINUTE_AGGREGATES}
@@ -169,6 +172,15 @@ export class BucketsRepository {
     minutes: readonly Date[],
   ): Promise<void> {
     if (sites.length === 0) return;
+    // History imported from a file can be older than any minute partition (they are made a month
+    // back from now, and dropped after the minute retention): make the months it needs.
+    const times = minutes.map((m) => m.getTime());
+    await ensureTimePartitions(
+      trx,
+      'minute_buckets',
+      new Date(Math.min(...times)),
+      new Date(Math.max(...times) + 60_000),
+    );
     const minuteIso = minutes.map((m) => m.toISOString());
     await sql`
       insert into minute_buckets (${BUCKET_COLUMNS})
