@@ -16,7 +16,7 @@ import { RULES_CONFIG, type RulesConfig } from './rules-config.js';
 import { DATA_KINDS, RulesEvaluationService } from './rules-evaluation.service.js';
 import { approximateLastSunrise } from './approximate-dawn.js';
 import { RuleDataRepository } from './rule-data.repository.js';
-import { sitesSurelyReporting } from './silence-screen.js';
+import { surelyReporting } from './silence-screen.js';
 import { SiteConfigRepository } from './site-config.repository.js';
 
 /** How far the approximate sunrise may differ from the SPA's, seconds (with room to spare). */
@@ -163,7 +163,6 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
       this.data.newestChannelTimes(ids),
       this.alerts.sitesWithActive('gateway_silent'),
     ]);
-    const reporting = sitesSurelyReporting(configs, newestT, withOpenAlert, nowT);
     for (const [i, id] of ids.entries()) {
       // Let socket reads and commits (PUBACKs) run between slices of a large fleet.
       if (i % 200 === 199) await new Promise((resolve) => setImmediate(resolve));
@@ -177,7 +176,13 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
       }
       // Every site's gateways are judged each round; a site surely reporting needs no
       // evaluation for that alone (silence-screen.ts).
-      if (kinds.size > 0 || !reporting.has(id)) kinds.add('gateway_silent');
+      if (
+        kinds.size > 0 ||
+        !site ||
+        !surelyReporting(site, newestT.get(id), withOpenAlert.has(id), nowT)
+      ) {
+        kinds.add('gateway_silent');
+      }
       if (kinds.size > 0) this.request(id, [...kinds]);
     }
     // Wait for this round's evaluations, but at most a tick: at a busy fleet, commits keep some

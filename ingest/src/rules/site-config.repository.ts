@@ -130,7 +130,9 @@ export class SiteConfigRepository {
       .where('s.id', 'in', [...siteIds])
       .execute();
 
-    for (const site of sites) {
+    for (const [i, site] of sites.entries()) {
+      // A tick loads every watched site: let socket reads and commits run between slices.
+      if (i % 500 === 499) await new Promise((resolve) => setImmediate(resolve));
       const { banks, tanks, pumps, arrays: siteArrays, floats, settings: siteSettings } = site;
       const bank = banks[0];
       const tankKey = new Map(tanks.map((t) => [t.id, t.key]));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { sitesSurelyReporting } from '../../src/rules/silence-screen.js';
+import { surelyReporting } from '../../src/rules/silence-screen.js';
 import type { SiteForRules } from '../../src/rules/site-config.repository.js';
 
 // Our own contract (no published value): a site is left out of the tick's silence round only
@@ -32,7 +32,21 @@ function site(
   };
 }
 
-describe('sitesSurelyReporting', () => {
+/** The sites of `sites` that the tick may leave out of its silence round. */
+function sitesSurelyReporting(
+  sites: ReadonlyMap<string, SiteForRules>,
+  newest: ReadonlyMap<string, number>,
+  withOpenAlert: ReadonlySet<string>,
+  nowT: number,
+): Set<string> {
+  return new Set(
+    [...sites.values()]
+      .filter((s) => surelyReporting(s, newest.get(s.id), withOpenAlert.has(s.id), nowT))
+      .map((s) => s.id),
+  );
+}
+
+describe('surelyReporting', () => {
   it('keeps only sites whose gateways are within their limit and have no open alert', () => {
     // Reporting every 60 s: silent after 5 intervals (300 s, core's default).
     const sites = new Map(
