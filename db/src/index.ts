@@ -16,7 +16,7 @@ export {
   ensureTimePartitions,
   keptFrom,
   partitionEnd,
-  partitionStart,
+  partitionsOf,
   partitionedTables,
 } from './partitions.js';
 export { newGatewaySecret, hashGatewaySecret, verifyGatewaySecret } from './gateway-secrets.js';

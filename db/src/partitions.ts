@@ -51,6 +51,21 @@ export function partitionEnd(table: keyof typeof partitionedTables, start: Date)
   return end;
 }
 
+/** The partitions of a time-partitioned table, each with where it begins. */
+export async function partitionsOf(
+  db: Kysely<any>, // eslint-disable-line @typescript-eslint/no-explicit-any
+  table: keyof typeof partitionedTables,
+): Promise<{ name: string; start: Date }[]> {
+  const { rows } = await sql<{ name: string }>`
+    select c.relname as name
+    from pg_inherits i join pg_class c on c.oid = i.inhrelid
+    where i.inhparent = ${table}::regclass`.execute(db);
+  return rows.flatMap(({ name }) => {
+    const start = partitionStart(table, name);
+    return start ? [{ name, start }] : [];
+  });
+}
+
 /**
  * Where a time-partitioned table's data begin: the start of its oldest partition, or null when
  * it has none. Ingest drops whole partitions past each retention (raw readings by day, minute
@@ -61,14 +76,9 @@ export async function keptFrom(
   db: Kysely<any>, // eslint-disable-line @typescript-eslint/no-explicit-any
   table: keyof typeof partitionedTables,
 ): Promise<Date | null> {
-  const { rows } = await sql<{ name: string }>`
-    select c.relname as name
-    from pg_inherits i join pg_class c on c.oid = i.inhrelid
-    where i.inhparent = ${table}::regclass`.execute(db);
   let oldest: Date | null = null;
-  for (const { name } of rows) {
-    const start = partitionStart(table, name);
-    if (start && (!oldest || start < oldest)) oldest = start;
+  for (const { start } of await partitionsOf(db, table)) {
+    if (!oldest || start < oldest) oldest = start;
   }
   return oldest;
 }

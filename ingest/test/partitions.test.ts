@@ -24,6 +24,36 @@ afterAll(async () => {
   await ingest?.close();
 });
 
+/** The partition's name when it exists, else null. */
+async function partitionNamed(name: string): Promise<string | null | undefined> {
+  const { rows } = await sql<{ r: string | null }>`select to_regclass(${name})::text as r`.execute(
+    database.db,
+  );
+  return rows[0]?.r;
+}
+
+/**
+ * A site with a battery-voltage channel and raw readings `secondsAfter` the given minute, its
+ * day's raw partition made for them, as the API's CSV import writes history.
+ */
+async function siteWithReadings(
+  minute: Date,
+  readings: [secondsAfter: number, value: number][],
+): Promise<string> {
+  const { siteId } = await seedSite(database.db);
+  const { rows } = await sql<{ id: number }>`
+    insert into channels (site_id, name, unit, value_kind)
+    values (${siteId}, 'battery/voltage', 'V', 'number') returning id`.execute(database.db);
+  await ensureTimePartitions(database.db, 'readings', minute, new Date(minute.getTime() + 60_000));
+  for (const [secondsAfter, value] of readings) {
+    await sql`
+      insert into readings (site_id, channel_id, time, value)
+      values (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + secondsAfter * 1000)},
+              ${value})`.execute(database.db);
+  }
+  return siteId;
+}
+
 describe('time partitions', () => {
   it('creates partitions ahead of now and 31 days back at start-up', async () => {
     const { rows } = await sql<{ name: string }>`
@@ -99,13 +129,10 @@ describe('time partitions', () => {
     const old = Date.now() - 120 * 86_400_000;
     await partitions.ensureCovering(old, old + 1000);
     const name = `readings_p${new Date(old).toISOString().slice(0, 10).replaceAll('-', '')}`;
-    const exists = async () =>
-      (await sql<{ r: string | null }>`select to_regclass(${name})::text as r`.execute(database.db))
-        .rows[0]?.r;
-    expect(await exists()).toBe(name);
+    expect(await partitionNamed(name)).toBe(name);
     const dropped = await partitions.dropExpired();
     expect(dropped).toContain(name);
-    expect(await exists()).toBeNull();
+    expect(await partitionNamed(name)).toBeNull();
     // Partitions inside the retention stay.
     expect(
       dropped.every(
@@ -125,15 +152,12 @@ describe('time partitions', () => {
     await partitions.ensureCovering(recent, recent + 1000);
     const monthOf = (ms: number) =>
       `minute_buckets_p${new Date(ms).toISOString().slice(0, 7).replace('-', '')}01`;
-    const exists = async (name: string) =>
-      (await sql<{ r: string | null }>`select to_regclass(${name})::text as r`.execute(database.db))
-        .rows[0]?.r;
-    expect(await exists(monthOf(old))).toBe(monthOf(old));
+    expect(await partitionNamed(monthOf(old))).toBe(monthOf(old));
     const dropped = await partitions.dropExpired();
     expect(dropped).toContain(monthOf(old));
-    expect(await exists(monthOf(old))).toBeNull();
+    expect(await partitionNamed(monthOf(old))).toBeNull();
     expect(dropped).not.toContain(monthOf(recent));
-    expect(await exists(monthOf(recent))).toBe(monthOf(recent));
+    expect(await partitionNamed(monthOf(recent))).toBe(monthOf(recent));
   });
 });
 
@@ -145,31 +169,12 @@ describe('history from before every partition', () => {
       on conflict (name) do nothing`.execute(database.db);
     // ...when the API's CSV import writes history: raw rows (their day's partition made for
     // them) and a pending mark per minute, for a month long before any minute partition.
-    const { siteId } = await seedSite(database.db);
-    const { rows } = await sql<{ id: number }>`
-      insert into channels (site_id, name, unit, value_kind)
-      values (${siteId}, 'battery/voltage', 'V', 'number') returning id`.execute(database.db);
     const minute = new Date('2023-05-10T08:30:00Z');
-    const month = 'minute_buckets_p20230501';
-    expect(
-      (
-        await sql<{ r: string | null }>`select to_regclass(${month})::text as r`.execute(
-          database.db,
-        )
-      ).rows[0]?.r,
-    ).toBeNull();
-    await ensureTimePartitions(
-      database.db,
-      'readings',
-      minute,
-      new Date(minute.getTime() + 60_000),
-    );
-    await sql`
-      insert into readings (site_id, channel_id, time, value)
-      values (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 10_000)}, 25.2),
-             (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 40_000)}, 25.6)`.execute(
-      database.db,
-    );
+    expect(await partitionNamed('minute_buckets_p20230501')).toBeNull();
+    const siteId = await siteWithReadings(minute, [
+      [10, 25.2],
+      [40, 25.6],
+    ]);
     await sql`insert into rollup_pending (site_id, minute) values (${siteId}, ${minute})`.execute(
       database.db,
     );
@@ -199,22 +204,8 @@ describe('history from before every partition', () => {
 describe('first roll-up of old history', () => {
   it('rolls up closed minutes of a month that has no minute partition yet', async () => {
     // A first sweep starts at the oldest reading; history imported before it can be years old.
-    const { siteId } = await seedSite(database.db);
-    const { rows } = await sql<{ id: number }>`
-      insert into channels (site_id, name, unit, value_kind)
-      values (${siteId}, 'battery/voltage', 'V', 'number') returning id`.execute(database.db);
     const minute = new Date('2022-07-04T12:00:00Z');
-    await ensureTimePartitions(
-      database.db,
-      'readings',
-      minute,
-      new Date(minute.getTime() + 60_000),
-    );
-    await sql`
-      insert into readings (site_id, channel_id, time, value)
-      values (${siteId}, ${rows[0]!.id}, ${new Date(minute.getTime() + 5_000)}, 24.9)`.execute(
-      database.db,
-    );
+    await siteWithReadings(minute, [[5, 24.9]]);
     const buckets = ingest.app.get(BucketsRepository);
     const written = await database.db
       .transaction()

@@ -4,7 +4,7 @@ import {
   type BeforeApplicationShutdown,
   type OnApplicationBootstrap,
 } from '@nestjs/common';
-import { ensureTimePartitions, partitionEnd, partitionStart } from '@wellkept/db';
+import { ensureTimePartitions, partitionEnd, partitionsOf } from '@wellkept/db';
 import { sql } from 'kysely';
 import type { Logger } from 'pino';
 import { INGEST_CONFIG, type IngestConfig } from '../config/ingest-config.js';
@@ -21,8 +21,8 @@ const MAINTENANCE_INTERVAL_MS = 3_600_000;
 /**
  * Keeps the time partitions of `readings` (daily) and `minute_buckets` (monthly) ready ahead of
  * the data, and drops partitions older than each table's retention (whole partitions: no
- * DELETE, no bloat). The writer also asks for partitions covering each batch, so a record never meets a
- * missing partition even if the hourly maintenance has not run yet.
+ * DELETE, no bloat). The writer also asks for partitions covering each batch, so a record never
+ * meets a missing partition even if the hourly maintenance has not run yet.
  */
 @Injectable()
 export class PartitionsService implements OnApplicationBootstrap, BeforeApplicationShutdown {
@@ -81,13 +81,8 @@ export class PartitionsService implements OnApplicationBootstrap, BeforeApplicat
     ] as const;
     for (const [table, days] of retentions) {
       const cutoff = now - days * DAY_MS;
-      const { rows } = await sql<{ name: string }>`
-        select c.relname as name
-        from pg_inherits i join pg_class c on c.oid = i.inhrelid
-        where i.inhparent = ${table}::regclass`.execute(this.db);
-      for (const { name } of rows) {
-        const start = partitionStart(table, name);
-        if (!start || partitionEnd(table, start).getTime() > cutoff) continue;
+      for (const { name, start } of await partitionsOf(this.db, table)) {
+        if (partitionEnd(table, start).getTime() > cutoff) continue;
         // CONCURRENTLY keeps writers to other partitions running while the partition detaches.
         await sql`alter table ${sql.table(table)} detach partition ${sql.table(name)} concurrently`.execute(
           this.db,
