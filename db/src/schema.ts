@@ -292,6 +292,7 @@ export interface PumpRuns {
   energy_wh: number | null;
   id: Generated<number>;
   mean_current_a: number | null;
+  open_run_carry: Json | null;
   pump_id: string;
   site_id: string;
   spans_gap: Generated<boolean>;

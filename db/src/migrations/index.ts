@@ -9,6 +9,7 @@ import * as coveringBucketKeys from './20261202_1410_covering_bucket_keys.js';
 import * as tenMinuteBuckets from './20261202_1500_ten_minute_buckets.js';
 import * as readingsTimeIndex from './20261202_1510_readings_time_index.js';
 import * as roomToUpdateInPlace from './20261203_1550_room_to_update_in_place.js';
+import * as openPumpRunCarry from './20261203_1800_open_pump_run_carry.js';
 
 /**
  * Every migration, by name. Names start with a timestamp so they sort in the order they run;
@@ -25,4 +26,5 @@ export const migrations: Record<string, Migration> = {
   '20261202_1500_ten_minute_buckets': tenMinuteBuckets,
   '20261202_1510_readings_time_index': readingsTimeIndex,
   '20261203_1550_room_to_update_in_place': roomToUpdateInPlace,
+  '20261203_1800_open_pump_run_carry': openPumpRunCarry,
 };

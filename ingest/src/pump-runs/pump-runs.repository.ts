@@ -4,7 +4,21 @@ import { tankGeometryFrom, type TankConfig } from '@wellkept/core';
 import type { DB } from '@wellkept/db';
 import { DATABASE, type Database } from '../database/database.js';
 import { TANK_DIMENSION_COLUMNS } from '../database/tank-dimensions.js';
-import type { DerivedPumpRun, TimedValue } from './derive-pump-runs.js';
+import type { DerivedPumpRun, OpenRunCarry, TimedValue } from './derive-pump-runs.js';
+
+/**
+ * Runs looked at before a re-derivation's start. More than this many runs ending within the
+ * switch gap of it (one every 12 s) would only move the start later, to a run start all the
+ * same, which is as valid a place to derive from.
+ */
+const LATEST_RUNS = 50;
+
+/** A stored run that a re-derivation from some time has to start from. */
+export interface OverlappingRun {
+  startedAt: Date;
+  open: boolean;
+  carry: OpenRunCarry | null;
+}
 
 export interface PumpForRuns {
   id: string;
@@ -57,21 +71,36 @@ export class PumpRunsRepository {
     });
   }
 
-  /** For each pump, the start of the run still open or ended within `gapSeconds` before `from`. */
-  async overlappingRunStarts(
+  /**
+   * For each pump, the earliest of its runs still open or ended within `gapSeconds` before
+   * `from`, with whether it is open and its carry. Runs do not overlap, so those runs are the
+   * latest ones before `from`: only the last few are looked at, not the pump's whole history.
+   */
+  async overlappingRuns(
     pumps: readonly { pumpId: string; from: Date }[],
     gapSeconds: number,
     db: Kysely<DB> = this.db,
-  ): Promise<Map<string, Date>> {
+  ): Promise<Map<string, OverlappingRun>> {
     if (pumps.length === 0) return new Map();
-    const { rows } = await sql<{ pump_id: string; started_at: Date }>`
-      select q.pump_id, min(r.started_at) as started_at
+    const { rows } = await sql<{
+      pump_id: string;
+      started_at: Date;
+      open: boolean;
+      carry: OpenRunCarry | null;
+    }>`
+      select q.pump_id, o.started_at, o.open, o.carry
       from unnest(${pumps.map((p) => p.pumpId)}::uuid[],
                   ${pumps.map((p) => p.from.toISOString())}::timestamptz[]) as q(pump_id, from_t)
-      join pump_runs r on r.pump_id = q.pump_id and r.started_at < q.from_t
-        and (r.ended_at is null or r.ended_at >= q.from_t - ${gapSeconds} * interval '1 second')
-      group by q.pump_id`.execute(db);
-    return new Map(rows.map((r) => [r.pump_id, r.started_at]));
+      cross join lateral (
+        select r.started_at, r.ended_at is null as open, r.open_run_carry as carry
+        from (select started_at, ended_at, open_run_carry from pump_runs
+              where pump_id = q.pump_id and started_at < q.from_t
+              order by started_at desc limit ${LATEST_RUNS}) r
+        where r.ended_at is null or r.ended_at >= q.from_t - ${gapSeconds} * interval '1 second'
+        order by r.started_at limit 1) o`.execute(db);
+    return new Map(
+      rows.map((r) => [r.pump_id, { startedAt: r.started_at, open: r.open, carry: r.carry }]),
+    );
   }
 
   /** Samples of named channels from a time on, by `site\0name`, sorted by time. */
@@ -102,12 +131,16 @@ export class PumpRunsRepository {
     return out;
   }
 
-  /** Replaces a pump's runs that start at or after `from` with the derived ones. */
+  /**
+   * Replaces a pump's runs that start at or after `from` with the derived ones; `carry` is the
+   * last run's when that one is open (every other run's is cleared).
+   */
   async replaceRuns(
     trx: Kysely<DB>,
     pump: { id: string; siteId: string },
     from: Date,
     runs: readonly DerivedPumpRun[],
+    carry: OpenRunCarry | null,
   ): Promise<void> {
     const keep = runs.map((r) => new Date(r.startedAt * 1000).toISOString());
     await sql`
@@ -115,10 +148,14 @@ export class PumpRunsRepository {
         and not (started_at = any(${keep}::timestamptz[]))`.execute(trx);
     if (runs.length === 0) return;
     const iso = (t: number | null) => (t === null ? null : new Date(t * 1000).toISOString());
+    const carried = carry ? iso(carry.startedAt) : null;
+    const carryJson = carry ? JSON.stringify(carry) : null;
     await sql`
       insert into pump_runs (site_id, pump_id, started_at, ended_at, duration_s, energy_wh,
-                             mean_current_a, water_m3, water_source, spans_gap, updated_at)
-      select ${pump.siteId}::uuid, ${pump.id}::uuid, r.s, r.e, r.d, r.en, r.i, r.w, r.src, r.g, now()
+                             mean_current_a, water_m3, water_source, spans_gap, open_run_carry,
+                             updated_at)
+      select ${pump.siteId}::uuid, ${pump.id}::uuid, r.s, r.e, r.d, r.en, r.i, r.w, r.src, r.g,
+             case when r.s = ${carried}::timestamptz then ${carryJson}::jsonb end, now()
       from unnest(${keep}::timestamptz[], ${runs.map((r) => iso(r.endedAt))}::timestamptz[],
                   ${runs.map((r) => r.durationS)}::float8[], ${runs.map((r) => r.energyWh)}::float8[],
                   ${runs.map((r) => r.meanCurrentA)}::float8[], ${runs.map((r) => r.waterM3)}::float8[],
@@ -128,6 +165,7 @@ export class PumpRunsRepository {
         ended_at = excluded.ended_at, duration_s = excluded.duration_s,
         energy_wh = excluded.energy_wh, mean_current_a = excluded.mean_current_a,
         water_m3 = excluded.water_m3, water_source = excluded.water_source,
-        spans_gap = excluded.spans_gap, updated_at = now()`.execute(trx);
+        spans_gap = excluded.spans_gap, open_run_carry = excluded.open_run_carry,
+        updated_at = now()`.execute(trx);
   }
 }

@@ -5,14 +5,15 @@ import type { Database } from '../database/database.js';
 import { LOGGER } from '../logging/logger.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { SWITCH_MAX_GAP_SECONDS } from '../storage/rollup-timing.js';
-import { derivePumpRuns, type TimedValue } from './derive-pump-runs.js';
-import { PumpRunsRepository, type PumpForRuns } from './pump-runs.repository.js';
+import { continuePumpRuns, type TimedValue } from './derive-pump-runs.js';
+import { PumpRunsRepository } from './pump-runs.repository.js';
 
 /**
  * Pump runs, re-derived incrementally: for each pump of a touched site, from the earliest time
  * that received data (or the start of the run in progress then) to the newest sample. A run's
  * figures change while it is open and when late samples arrive, so the runs from that point on
- * are replaced in one transaction; runs before it are left alone.
+ * are replaced in one transaction; runs before it are left alone. A run in progress is continued
+ * from what its earlier samples added up to (its carry), not read again from its start.
  */
 @Injectable()
 export class PumpRunsService {
@@ -22,53 +23,49 @@ export class PumpRunsService {
     @Inject(LOGGER) private readonly logger: Logger,
   ) {}
 
-  /** Re-derives runs of every pump at the given sites from the given times. Returns sites done. */
-  async rederive(fromBySite: ReadonlyMap<string, Date>): Promise<number> {
-    const { sites, updates } = await this.repository.database
-      .transaction()
-      .execute((trx) => this.rederiveIn(trx, fromBySite));
-    // In-process events only once the transaction has committed.
-    this.siteUpdates.emit(updates);
-    return sites;
-  }
-
   /** Announces re-derived runs in-process (after the transaction that wrote them committed). */
   emit(updates: readonly SiteUpdatedEvent[]): void {
     this.siteUpdates.emit(updates);
   }
 
   /**
-   * The same inside the caller's transaction, so the runs are replaced in the commit that
-   * consumes what asked for them (the roll-up's late-minute marks and watermark): a crash in
-   * between can no longer lose the re-derivation (found by the fault runs, issue 9). The caller
-   * emits `updates` after its commit.
+   * Re-derives the runs of every pump at the given sites from the given times, inside the
+   * caller's transaction, so the runs are replaced in the commit that consumes what asked for
+   * them (the roll-up's late-minute marks and watermark): a crash in between can no longer lose
+   * the re-derivation (found by the fault runs, issue 9). The caller emits `updates` after its
+   * commit.
+   *
+   * `settledBefore` is the time before which no sample can arrive without its minute being
+   * marked late again (the roll-up's watermark): a run still open keeps what its samples before
+   * then add up to, and the next re-derivation that starts at or after it continues from there
+   * instead of reading the run again from its start.
    */
   async rederiveIn(
     trx: Database,
     fromBySite: ReadonlyMap<string, Date>,
+    settledBefore: Date,
   ): Promise<{ sites: number; updates: SiteUpdatedEvent[] }> {
     const pumps = await this.repository.pumpsAt([...fromBySite.keys()], trx);
     if (pumps.length === 0) return { sites: 0, updates: [] };
-    const overlapping = await this.repository.overlappingRunStarts(
+    const overlapping = await this.repository.overlappingRuns(
       pumps.map((p) => ({ pumpId: p.id, from: fromBySite.get(p.siteId)! })),
       SWITCH_MAX_GAP_SECONDS,
       trx,
     );
-    const startOf = (p: PumpForRuns): Date => {
-      const from = fromBySite.get(p.siteId)!;
-      const open = overlapping.get(p.id);
-      return open && open < from ? open : from;
-    };
-    const lookBack = (d: Date) => new Date(d.getTime() - SWITCH_MAX_GAP_SECONDS * 1000);
+    const lookBack = (seconds: number) => new Date((seconds - SWITCH_MAX_GAP_SECONDS) * 1000);
 
     const changedSites = new Set<string>();
-    // One pump's samples at a time: a run still open (a pump stuck on) re-derives from its
-    // start, so one pump can mean days of samples. Read for every pump at once, npm start's
-    // 30-day demo backfill held 1.5 million rows together and ran ingest out of its heap; one
-    // pump's worth is what must fit.
+    // One pump's samples at a time: a run re-derived from its start can mean days of samples
+    // (npm start's 30-day demo backfill, read for every pump at once, held 1.5 million rows
+    // and ran ingest out of its heap); one pump's worth is what must fit.
     for (const pump of pumps) {
-      const start = startOf(pump);
-      const from = lookBack(start);
+      const from = fromBySite.get(pump.siteId)!;
+      const run = overlapping.get(pump.id);
+      const start = run && run.startedAt < from ? run.startedAt : from;
+      // Nothing before `from` changed since the carry was kept, so it still holds.
+      const carry =
+        run?.open && run.carry && run.carry.through * 1000 <= from.getTime() ? run.carry : null;
+      const readFrom = lookBack(carry ? carry.through : start.getTime() / 1000);
       const names = [
         `pump/${pump.key}/running`,
         `pump/${pump.key}/current`,
@@ -77,20 +74,27 @@ export class PumpRunsService {
       ];
       if (pump.tank) names.push(`tank/${pump.tank.key}/level`);
       const samples = await this.repository.samples(
-        names.map((name) => ({ siteId: pump.siteId, name, from })),
+        names.map((name) => ({ siteId: pump.siteId, name, from: readFrom })),
         trx,
       );
       const series = (name: string) => samples.get(`${pump.siteId}\u0000${name}`) ?? [];
-      const runs = derivePumpRuns({
-        running: series(`pump/${pump.key}/running`),
-        current: series(`pump/${pump.key}/current`),
-        flow: series(`pump/${pump.key}/flow`),
-        batteryVoltage: series('battery/voltage'),
-        tankVolume: pump.tank ? tankVolumes(pump.tank, series(`tank/${pump.tank.key}/level`)) : [],
-        ratedCurrentA: pump.ratedCurrentA,
-        maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
-      }).filter((r) => r.startedAt * 1000 >= start.getTime());
-      await this.repository.replaceRuns(trx, pump, start, runs);
+      const derived = continuePumpRuns(
+        {
+          running: series(`pump/${pump.key}/running`),
+          current: series(`pump/${pump.key}/current`),
+          flow: series(`pump/${pump.key}/flow`),
+          batteryVoltage: series('battery/voltage'),
+          tankVolume: pump.tank
+            ? tankVolumes(pump.tank, series(`tank/${pump.tank.key}/level`))
+            : [],
+          ratedCurrentA: pump.ratedCurrentA,
+          maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
+        },
+        carry,
+        settledBefore.getTime() / 1000,
+      );
+      const runs = derived.runs.filter((r) => r.startedAt * 1000 >= start.getTime());
+      await this.repository.replaceRuns(trx, pump, start, runs, derived.carry);
       changedSites.add(pump.siteId);
     }
     const at = new Date().toISOString();

@@ -44,7 +44,8 @@ export interface SweepResult {
  *     day buckets;
  *  2. recomputes the minutes that received late rows (listed in rollup_pending by the writer)
  *     from raw rows, and their hours and days whole from minute buckets;
- *  3. re-derives pump runs for the sites touched, in the same transaction as 1 or 2.
+ *  3. re-derives pump runs for the sites touched, in the same transaction as 1 or 2 (a run
+ *     still open keeps what its samples before the watermark add up to, see PumpRunsService).
  * Staleness: buckets trail raw readings by 30–40 s after each minute closes (rollup-timing.ts).
  */
 @Injectable()
@@ -97,9 +98,9 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
     const result: SweepResult = { closed: null, lateMinutes: 0, pumpSites: 0 };
     // Pump runs are re-derived inside the transaction that consumes the watermark step or the
     // late-minute marks that asked for it; their events go out after that commit.
-    const rederive = async (trx: Database, pumpFrom: Map<string, Date>) => {
+    const rederive = async (trx: Database, pumpFrom: Map<string, Date>, watermark: Date) => {
       if (pumpFrom.size === 0) return [];
-      const { sites, updates } = await this.pumpRuns.rederiveIn(trx, pumpFrom);
+      const { sites, updates } = await this.pumpRuns.rederiveIn(trx, pumpFrom, watermark);
       result.pumpSites += sites;
       return updates;
     };
@@ -139,7 +140,7 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
         );
         const pumpFrom = new Map<string, Date>();
         for (const { site_id } of pumpSites) touch(pumpFrom, site_id, from);
-        return { from, to, updates: await rederive(trx, pumpFrom) };
+        return { from, to, updates: await rederive(trx, pumpFrom, to) };
       });
       if (!chunk) break;
       this.pumpRuns.emit(chunk.updates);
@@ -153,11 +154,15 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
         if (!(await tryLock(trx))) return { count: 0, updates: [] };
         // Marks locked by a batch still committing are skipped: that batch's rows are not
         // visible yet, so recomputing now would miss them; the next sweep takes the mark.
+        const { rows: state } = await sql<{ watermark: Date | null }>`
+          select watermark from rollup_state where name = ${STATE_NAME}`.execute(trx);
+        const watermark = state[0]?.watermark;
+        if (!watermark) return { count: 0, updates: [] };
         const { rows } = await sql<{ site_id: string; minute: Date }>`
           delete from rollup_pending
           where (site_id, minute) in (
             select site_id, minute from rollup_pending
-            where minute < (select watermark from rollup_state where name = ${STATE_NAME})
+            where minute < ${watermark}
             order by minute limit ${PENDING_CHUNK}
             for update skip locked)
           returning site_id, minute`.execute(trx);
@@ -169,7 +174,7 @@ export class RollupService implements OnApplicationBootstrap, BeforeApplicationS
         );
         const pumpFrom = new Map<string, Date>();
         for (const r of rows) touch(pumpFrom, r.site_id, r.minute);
-        return { count: rows.length, updates: await rederive(trx, pumpFrom) };
+        return { count: rows.length, updates: await rederive(trx, pumpFrom, watermark) };
       });
       this.pumpRuns.emit(handled.updates);
       result.lateMinutes += handled.count;
