@@ -5,8 +5,12 @@ import type { Database } from '../database/database.js';
 import { LOGGER } from '../logging/logger.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { SWITCH_MAX_GAP_SECONDS } from '../storage/rollup-timing.js';
-import { continuePumpRuns, type TimedValue } from './derive-pump-runs.js';
-import { PumpRunsRepository } from './pump-runs.repository.js';
+import { continuePumpRuns, type OpenRunCarry, type TimedValue } from './derive-pump-runs.js';
+import {
+  PumpRunsRepository,
+  type PumpForRuns,
+  type RunsReplacement,
+} from './pump-runs.repository.js';
 
 /**
  * Pump runs, re-derived incrementally: for each pump of a touched site, from the earliest time
@@ -54,18 +58,13 @@ export class PumpRunsService {
     );
     const lookBack = (seconds: number) => new Date((seconds - SWITCH_MAX_GAP_SECONDS) * 1000);
 
-    const changedSites = new Set<string>();
-    // One pump's samples at a time: a run re-derived from its start can mean days of samples
-    // (npm start's 30-day demo backfill, read for every pump at once, held 1.5 million rows
-    // and ran ingest out of its heap); one pump's worth is what must fit.
-    for (const pump of pumps) {
+    const plans = pumps.map((pump): Plan => {
       const from = fromBySite.get(pump.siteId)!;
       const run = overlapping.get(pump.id);
       const start = run && run.startedAt < from ? run.startedAt : from;
       // Nothing before `from` changed since the carry was kept, so it still holds.
       const carry =
         run?.open && run.carry && run.carry.through * 1000 <= from.getTime() ? run.carry : null;
-      const readFrom = lookBack(carry ? carry.through : start.getTime() / 1000);
       const names = [
         `pump/${pump.key}/running`,
         `pump/${pump.key}/current`,
@@ -73,29 +72,46 @@ export class PumpRunsService {
         'battery/voltage',
       ];
       if (pump.tank) names.push(`tank/${pump.tank.key}/level`);
+      const readFrom = lookBack(carry ? carry.through : start.getTime() / 1000);
+      return { pump, start, carry, names, readFrom };
+    });
+
+    const changedSites = new Set<string>();
+    for (const batch of readTogether(plans, Date.now())) {
       const samples = await this.repository.samples(
-        names.map((name) => ({ siteId: pump.siteId, name, from: readFrom })),
+        batch.flatMap((plan) =>
+          plan.names.map((name) => ({ siteId: plan.pump.siteId, name, from: plan.readFrom })),
+        ),
         trx,
       );
-      const series = (name: string) => samples.get(`${pump.siteId}\u0000${name}`) ?? [];
-      const derived = continuePumpRuns(
-        {
-          running: series(`pump/${pump.key}/running`),
-          current: series(`pump/${pump.key}/current`),
-          flow: series(`pump/${pump.key}/flow`),
-          batteryVoltage: series('battery/voltage'),
-          tankVolume: pump.tank
-            ? tankVolumes(pump.tank, series(`tank/${pump.tank.key}/level`))
-            : [],
-          ratedCurrentA: pump.ratedCurrentA,
-          maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
-        },
-        carry,
-        settledBefore.getTime() / 1000,
-      );
-      const runs = derived.runs.filter((r) => r.startedAt * 1000 >= start.getTime());
-      await this.repository.replaceRuns(trx, pump, start, runs, derived.carry);
-      changedSites.add(pump.siteId);
+      let next = 0;
+      const replacements = batch.map(({ pump, start, carry, names }): RunsReplacement => {
+        const byName = new Map(names.map((name) => [name, samples[next++]!]));
+        const series = (name: string) => byName.get(name) ?? [];
+        const derived = continuePumpRuns(
+          {
+            running: series(`pump/${pump.key}/running`),
+            current: series(`pump/${pump.key}/current`),
+            flow: series(`pump/${pump.key}/flow`),
+            batteryVoltage: series('battery/voltage'),
+            tankVolume: pump.tank
+              ? tankVolumes(pump.tank, series(`tank/${pump.tank.key}/level`))
+              : [],
+            ratedCurrentA: pump.ratedCurrentA,
+            maxGapSeconds: SWITCH_MAX_GAP_SECONDS,
+          },
+          carry,
+          settledBefore.getTime() / 1000,
+        );
+        changedSites.add(pump.siteId);
+        return {
+          pump,
+          from: start,
+          runs: derived.runs.filter((r) => r.startedAt * 1000 >= start.getTime()),
+          carry: derived.carry,
+        };
+      });
+      await this.repository.replaceRuns(trx, replacements);
     }
     const at = new Date().toISOString();
     const updates: SiteUpdatedEvent[] = [...changedSites].map((siteId) => ({
@@ -107,6 +123,48 @@ export class PumpRunsService {
     this.logger.debug({ sites: changedSites.size, pumps: pumps.length }, 'pump runs re-derived');
     return { sites: changedSites.size, updates };
   }
+}
+
+/** One pump's re-derivation: from where, continuing which carry, reading what from when. */
+interface Plan {
+  pump: PumpForRuns;
+  start: Date;
+  carry: OpenRunCarry | null;
+  names: string[];
+  readFrom: Date;
+}
+
+/** Pumps read and written together while their windows add up to at most this, seconds. */
+const BATCH_WINDOW_SECONDS = 50 * 3600;
+/** And at most this many pumps at a time. */
+const BATCH_PUMPS = 500;
+
+/**
+ * The re-derivations in batches, shortest reads first. A sweep while pumps run continues each
+ * open run from its carry, a read of a few minutes per pump: reading and writing a few hundred
+ * pumps in three statements instead of three per pump is most of what such a sweep saves. A run
+ * read from its start can mean days of samples (npm start's 30-day demo backfill, read for
+ * every pump at once, held 1.5 million rows and ran ingest out of its heap): a window longer
+ * than the budget is read on its own.
+ */
+function* readTogether(plans: readonly Plan[], nowMs: number): Generator<Plan[]> {
+  const span = (plan: Plan) => Math.max(0, nowMs - plan.readFrom.getTime()) / 1000;
+  const sorted = [...plans].sort((a, b) => span(a) - span(b));
+  let batch: Plan[] = [];
+  let total = 0;
+  for (const plan of sorted) {
+    if (
+      batch.length > 0 &&
+      (total + span(plan) > BATCH_WINDOW_SECONDS || batch.length >= BATCH_PUMPS)
+    ) {
+      yield batch;
+      batch = [];
+      total = 0;
+    }
+    batch.push(plan);
+    total += span(plan);
+  }
+  if (batch.length > 0) yield batch;
 }
 
 function tankVolumes(tank: TankConfig, levels: readonly TimedValue[]): TimedValue[] {

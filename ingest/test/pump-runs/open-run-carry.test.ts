@@ -2,18 +2,17 @@ import { useTestDatabase } from '@wellkept/db/testing';
 import { sql } from 'kysely';
 import type { MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { derivePumpRuns, type TimedValue } from '../../src/pump-runs/derive-pump-runs.js';
 import { PumpRunsRepository } from '../../src/pump-runs/pump-runs.repository.js';
 import {
   baseName,
   connectGateway,
   publishAcked,
-  readingsOf,
   seedSite,
   startTestIngest,
   type RunningIngest,
   type SeededSite,
 } from '../support/ingest-harness.js';
+import { runsFromEverySample } from './support/runs-from-every-sample.js';
 
 const database = useTestDatabase('ingest_open_run_carry');
 let ingest: RunningIngest;
@@ -41,22 +40,8 @@ async function publish(records: object[]) {
 }
 
 /** The pump's runs derived from every stored sample at once (no carry). */
-async function derivedFromEverySample() {
-  const rows = await readingsOf(database.db, site.siteId);
-  const series = (name: string): TimedValue[] =>
-    rows
-      .filter((r) => r.name === name && r.value !== null)
-      .map((r) => ({ t: r.time.getTime() / 1000, v: r.value! }));
-  return derivePumpRuns({
-    running: series('pump/well/running'),
-    current: series('pump/well/current'),
-    flow: [],
-    batteryVoltage: series('battery/voltage'),
-    tankVolume: [],
-    ratedCurrentA: 8,
-    maxGapSeconds: GAP,
-  });
-}
+const derivedFromEverySample = () =>
+  runsFromEverySample(database.db, { siteId: site.siteId, key: 'well', ratedCurrentA: 8 });
 
 async function storedRuns() {
   return database.db
