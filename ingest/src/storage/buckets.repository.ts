@@ -182,6 +182,9 @@ export class BucketsRepository {
       new Date(Math.max(...times) + 60_000),
     );
     const minuteIso = minutes.map((m) => m.toISOString());
+    // Each (site, minute, channel) reads its eleven minutes by the index, in a lateral subquery:
+    // joined directly, the planner read each channel's whole day and filtered the times
+    // afterwards (5.6 million rows read to keep 132,000 for 1,500 late minutes of 300 sites).
     await sql`
       insert into minute_buckets (${BUCKET_COLUMNS})
       select x.site_id, x.channel_id, x.minute, ${MINUTE_AGGREGATES}
@@ -189,10 +192,13 @@ export class BucketsRepository {
         select p.minute, ${SAMPLE_COLUMNS}
         from unnest(${sites}::uuid[], ${minuteIso}::timestamptz[]) as p(site_id, minute)
         join channels c on c.site_id = p.site_id
-        join readings r on r.site_id = p.site_id and r.channel_id = c.id
-          and r.time >= p.minute - ${SWITCH_MAX_GAP_SECONDS} * interval '1 second'
-          and r.time < p.minute + interval '1 minute'
-        where r.value is not null
+        cross join lateral (
+          select r.site_id, r.channel_id, r.time, r.value from readings r
+          where r.site_id = p.site_id and r.channel_id = c.id
+            and r.time >= p.minute - ${SWITCH_MAX_GAP_SECONDS} * interval '1 second'
+            and r.time < p.minute + interval '1 minute'
+            and r.value is not null
+          order by r.time) r
         window w as (partition by p.site_id, p.minute, r.channel_id order by r.time)
       ) x
       where x.time >= x.minute

@@ -1,13 +1,16 @@
 /**
- * Pump-run benchmark (run by `npm run bench -w ingest`; figures printed, nothing asserted): what
- * the roll-up sweep's pump-run re-derivation costs when pumps have been running for hours (a
- * solar pump's day, a stuck float). On a durable PostgreSQL of its own:
- *  - BENCH_PUMP_SITES sites (default 300, the rules tests' homestead) whose well pump switched on
- *    BENCH_PUMP_RUN_HOURS ago (default 8) and is still on, with switch, current, bank voltage
+ * Roll-up sweep benchmark (run by `npm run bench -w ingest`; figures printed, nothing asserted):
+ * what the sweep's two per-site parts cost, pump runs while pumps run (a solar pump's day, a
+ * stuck float) and late minutes (a gateway sending what it stored while offline). On a durable
+ * PostgreSQL of its own:
+ *  - BENCH_SWEEP_SITES sites (default 300, the rules tests' homestead) whose well pump switched
+ *    on BENCH_SWEEP_RUN_HOURS ago (default 8) and is still on, with switch, current, bank voltage
  *    and tank level every 30 s, loaded by COPY;
- *  - one sweep's re-derivation of every site, as ingest does it once a minute while the pumps
- *    run: continuing each open run from its carry, and (in the same run, alternating) reading
- *    each run again from its start, as it did until 3 December 2026;
+ *  - one sweep's pump-run re-derivation of every site, as ingest does it once a minute while the
+ *    pumps run: continuing each open run from its carry, and (in the same run, alternating)
+ *    reading each run again from its start, as it did until 3 December 2026;
+ *  - recomputing five late minutes of every site (their minute buckets from raw readings, then
+ *    their hours and days);
  *  - wall time, this process's CPU time and the samples read, per sweep and per site.
  */
 import { Readable } from 'node:stream';
@@ -19,17 +22,18 @@ import copyStreams from 'pg-copy-streams';
 import { createLogger } from '../src/logging/logger.js';
 import { PumpRunsRepository } from '../src/pump-runs/pump-runs.repository.js';
 import { PumpRunsService } from '../src/pump-runs/pump-runs.service.js';
+import { BucketsRepository } from '../src/storage/buckets.repository.js';
 import { SiteUpdates } from '../src/site-updates/site-updates.js';
 import { createCompany, createSite } from '../test/rules/support/homestead-site.js';
 
-const SITES = Number(process.env.BENCH_PUMP_SITES ?? 300);
-const RUN_HOURS = Number(process.env.BENCH_PUMP_RUN_HOURS ?? 8);
-const ROUNDS = Number(process.env.BENCH_PUMP_ROUNDS ?? 3);
+const SITES = Number(process.env.BENCH_SWEEP_SITES ?? 300);
+const RUN_HOURS = Number(process.env.BENCH_SWEEP_RUN_HOURS ?? 8);
+const ROUNDS = Number(process.env.BENCH_SWEEP_ROUNDS ?? 3);
 const INTERVAL_S = 30;
-const log = (m: string) => console.log(`[bench pump-runs] ${m}`);
+const log = (m: string) => console.log(`[bench sweep] ${m}`);
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] ?? NaN;
 
-const pg = await startThrowawayCluster({ prefix: 'bench', database: 'pumps', durable: true, log });
+const pg = await startThrowawayCluster({ prefix: 'bench', database: 'sweep', durable: true, log });
 try {
   const pool = createPool(pg.databaseUrl, { max: 2, applicationName: 'wellkept-bench' });
   const db = new Kysely<DB>({ dialect: new PostgresDialect({ pool }) });
@@ -43,11 +47,11 @@ try {
   );
 
   log(`seeding ${SITES} sites, each pump on for ${RUN_HOURS} h, samples every ${INTERVAL_S} s`);
-  const company = await createCompany(db, 'Pump-run bench installer');
+  const company = await createCompany(db, 'Sweep bench installer');
   const siteIds: string[] = [];
   let rows = 0;
   for (let s = 0; s < SITES; s++) {
-    const site = await createSite(db, company.id, { name: `Pump-run bench site ${s}` });
+    const site = await createSite(db, company.id, { name: `Sweep bench site ${s}` });
     siteIds.push(site.id);
     const channel = async (name: string, unit: string, kind: 'number' | 'boolean') =>
       (
@@ -128,6 +132,22 @@ try {
     await sql`update pump_runs set open_run_carry = null`.execute(db);
     fromStart.push(await sweep(nowT - 600, nowT - 600));
   }
+  // Late minutes: five minutes an hour ago at every site, as a gateway back from an outage
+  // sends them (each recomputed from its raw readings, then its hours and days).
+  const buckets = new BucketsRepository();
+  const lateSites = siteIds.flatMap((id) => [0, 1, 2, 3, 4].map(() => id));
+  const lateMinutes = siteIds.flatMap(() =>
+    [0, 1, 2, 3, 4].map((k) => new Date((nowT - 3600 + 60 * k) * 1000)),
+  );
+  const late: { wall: number; cpu: number }[] = [];
+  for (let round = 0; round < ROUNDS; round++) {
+    const cpu0 = process.cpuUsage();
+    const wall0 = performance.now();
+    await db.transaction().execute((trx) => buckets.recomputeMinutes(trx, lateSites, lateMinutes));
+    const cpu = process.cpuUsage(cpu0);
+    late.push({ wall: performance.now() - wall0, cpu: (cpu.user + cpu.system) / 1000 });
+  }
+
   const open = await db
     .selectFrom('pump_runs')
     .select((eb) => eb.fn.countAll<number>().as('n'))
@@ -146,6 +166,7 @@ Pump-run re-derivation, ${SITES} sites with a pump on for ${RUN_HOURS} h (${Numb
 ${line('continued from each run carry', carried)}
 ${line('each run read from its start  ', fromStart)}
   from the start / continued: ${ratio.toFixed(1)}x wall time
+  late minutes, ${lateMinutes.length.toLocaleString('en-US')} (site, minute) pairs recomputed: ${median(late.map((x) => x.wall)).toFixed(0)} ms (${(median(late.map((x) => x.wall)) / lateMinutes.length).toFixed(3)} ms a minute), ingest CPU ${median(late.map((x) => x.cpu)).toFixed(0)} ms
   at 10,000 such sites and one sweep a minute, continued: ${(((median(carried.map((x) => x.wall)) / SITES) * 10_000) / 1000).toFixed(1)} s of every minute; from the start: ${(((median(fromStart.map((x) => x.wall)) / SITES) * 10_000) / 1000).toFixed(1)} s`);
   await db.destroy();
 } finally {
