@@ -47,7 +47,7 @@ async function write(
 }
 
 describe('samples for pump-run derivation', () => {
-  it('gives each asked (site, channel) its own samples from its own time on, in time order, in the order asked', async () => {
+  it('gives each asked (site, channel) its own samples from its own time on (to its own end), in time order, in the order asked', async () => {
     const a = await seedSite(database.db);
     const b = await seedSite(database.db);
     const t0 = Math.floor(Date.now() / 1000) - 3600;
@@ -64,9 +64,15 @@ describe('samples for pump-run derivation', () => {
       { siteId: b.siteId, name: 'battery/voltage', from: new Date((t0 + 600) * 1000) },
       { siteId: a.siteId, name: 'battery/current', from: new Date(t0 * 1000) },
       { siteId: b.siteId, name: 'tank/main/level', from: new Date(t0 * 1000) },
+      {
+        siteId: a.siteId,
+        name: 'battery/voltage',
+        from: new Date(t0 * 1000),
+        before: new Date((t0 + 600) * 1000),
+      },
     ]);
     const values = (i: number) => samples[i]!.map((s) => [s.t, s.v]);
-    expect(samples).toHaveLength(4);
+    expect(samples).toHaveLength(5);
     expect(values(0)).toEqual([
       [t0 + 300, t0 + 300.25],
       [t0 + 600, t0 + 600.25],
@@ -79,5 +85,10 @@ describe('samples for pump-run derivation', () => {
     expect(values(2)).toEqual([t0, t0 + 300, t0 + 600, t0 + 900].map((t) => [t, t + 0.25]));
     // Asked for but never reported: site b's tank level.
     expect(values(3)).toEqual([]);
+    // Up to a time: the samples before it only.
+    expect(values(4)).toEqual([
+      [t0, t0 + 0.25],
+      [t0 + 300, t0 + 300.25],
+    ]);
   });
 });

@@ -112,11 +112,11 @@ export class PumpRunsRepository {
   }
 
   /**
-   * Samples of named channels from a time on, sorted by time: one list for each thing asked
-   * for, in the order asked (empty when there are none).
+   * Samples of named channels from a time on (and before another, when given), sorted by time:
+   * one list for each thing asked for, in the order asked (empty when there are none).
    */
   async samples(
-    wanted: readonly { siteId: string; name: string; from: Date }[],
+    wanted: readonly { siteId: string; name: string; from: Date; before?: Date }[],
     db: Kysely<DB> = this.db,
   ): Promise<TimedValue[][]> {
     const out = wanted.map((): TimedValue[] => []);
@@ -130,12 +130,14 @@ export class PumpRunsRepository {
     const { rows } = await sql<{ i: number; t: number; v: number }>`
       select q.i::int as i, extract(epoch from r.time)::float8 as t, r.value as v
       from unnest(${wanted.map((w) => w.siteId)}::uuid[], ${wanted.map((w) => w.name)}::text[],
-                  ${wanted.map((w) => w.from.toISOString())}::timestamptz[])
-             with ordinality as q(site_id, name, from_t, i)
+                  ${wanted.map((w) => w.from.toISOString())}::timestamptz[],
+                  ${wanted.map((w) => w.before?.toISOString() ?? 'infinity')}::timestamptz[])
+             with ordinality as q(site_id, name, from_t, before_t, i)
       join channels c on c.site_id = q.site_id and c.name = q.name
       cross join lateral (
         select r.time, r.value from readings r
         where r.site_id = c.site_id and r.channel_id = c.id and r.time >= q.from_t
+          and r.time < q.before_t
           and r.value is not null
         order by r.time) r
       order by q.i, r.time`.execute(db);

@@ -14,10 +14,11 @@ import {
 
 /**
  * Pump runs, re-derived incrementally: for each pump of a touched site, from the earliest time
- * that received data (or the start of the run in progress then) to the newest sample. A run's
- * figures change while it is open and when late samples arrive, so the runs from that point on
- * are replaced in one transaction; runs before it are left alone. A run in progress is continued
- * from what its earlier samples added up to (its carry), not read again from its start.
+ * that received data (or the start of the run in progress then) up to the roll-up's watermark,
+ * like the buckets (a run that ended after it shows as running until the sweep passes its end).
+ * A run's figures change while it is open and when late samples arrive, so the runs from that
+ * point on are replaced in one transaction; runs before it are left alone. A run in progress is
+ * continued from what its earlier samples added up to (its carry), not read again from its start.
  */
 @Injectable()
 export class PumpRunsService {
@@ -40,9 +41,11 @@ export class PumpRunsService {
    * commit.
    *
    * `settledBefore` is the time before which no sample can arrive without its minute being
-   * marked late again (the roll-up's watermark): a run still open keeps what its samples before
-   * then add up to, and the next re-derivation that starts at or after it continues from there
-   * instead of reading the run again from its start.
+   * marked late again (the roll-up's watermark). Only samples before it are read: a catch-up
+   * through a month of history, ten minutes a transaction, used to read every sample from each
+   * chunk to now, so it took time in the square of the history. A run still open there keeps
+   * what its samples add up to, and the next re-derivation that starts at or after it
+   * continues from there instead of reading the run again from its start.
    */
   async rederiveIn(
     trx: Database,
@@ -77,10 +80,15 @@ export class PumpRunsService {
     });
 
     const changedSites = new Set<string>();
-    for (const batch of readTogether(plans, Date.now())) {
+    for (const batch of readTogether(plans, settledBefore.getTime())) {
       const samples = await this.repository.samples(
         batch.flatMap((plan) =>
-          plan.names.map((name) => ({ siteId: plan.pump.siteId, name, from: plan.readFrom })),
+          plan.names.map((name) => ({
+            siteId: plan.pump.siteId,
+            name,
+            from: plan.readFrom,
+            before: settledBefore,
+          })),
         ),
         trx,
       );

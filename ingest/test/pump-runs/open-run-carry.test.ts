@@ -54,10 +54,18 @@ async function storedRuns() {
 
 /** Runs a sweep and returns where each of its sample reads began, seconds. */
 async function sweepReadingFrom(): Promise<number[]> {
+  return (await sweepReading()).map((read) => read.from);
+}
+
+/** Runs a sweep and returns the time span of each of its sample reads, seconds. */
+async function sweepReading(): Promise<{ from: number; before: number }[]> {
   const samples = vi.spyOn(ingest.app.get(PumpRunsRepository), 'samples');
   try {
     await ingest.sweep();
-    return samples.mock.calls.map(([wanted]) => wanted[0]!.from.getTime() / 1000);
+    return samples.mock.calls.map(([wanted]) => ({
+      from: wanted[0]!.from.getTime() / 1000,
+      before: wanted[0]!.before!.getTime() / 1000,
+    }));
   } finally {
     samples.mockRestore();
   }
@@ -104,8 +112,14 @@ afterAll(async () => {
 
 describe('a pump left on, continued sweep after sweep', () => {
   it('reads the run once from its start, then only from where the last sweep stopped', async () => {
-    const from = await sweepReadingFrom();
+    const reads = await sweepReading();
+    const from = reads.map((read) => read.from);
     expect(from.length).toBeGreaterThanOrEqual(10);
+    // Each read stops at the end of the ten minutes it rolls up (the watermark it moves to), not
+    // at the newest sample: a catch-up reads each ten minutes once.
+    reads.slice(0, -1).forEach((read, i) => {
+      expect(read.before).toBe(watermark + (i + 1) * 10 * MINUTE);
+    });
     // The first ten minutes rolled up: the run from its start (and the gap before it), as the
     // carry kept by the sweep before reached past them (to that sweep's watermark).
     expect(from[0]).toBe(startedAt - GAP);
