@@ -27,7 +27,8 @@ const DAWN_SLACK_S = 600;
  * - after a site's data commits (the in-process `site.updated` event of ingest), debounced per
  *   site: the first event starts a timer of RULES_DEBOUNCE_MS and later ones ride along, so a
  *   day of back-filled packs costs one evaluation, not thousands; and at most once per
- *   RULES_MIN_INTERVAL_MS per site, so a fleet reporting every 30 s costs evaluations in
+ *   RULES_MIN_INTERVAL_MS per site (up to half as long again, at random, so sites that
+ *   reported together drift apart), so a fleet reporting every 30 s costs evaluations in
  *   proportion to its sites, not to its packs;
  * - on a tick (RULES_TICK_MS): gateway silence for every watched site (evaluated only where
  *   it may change something: silence-screen.ts), overnight sag once per night after each site's
@@ -46,8 +47,8 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
   private readonly queue = new Set<string>();
   private active = 0;
   private readonly lastFull = new Map<string, number>();
-  /** Per site: when its data rules were last started by new data (real time, ms). */
-  private readonly lastDataRun = new Map<string, number>();
+  /** Per site: when its data rules may next be started by new data (real time, ms). */
+  private readonly nextDataRun = new Map<string, number>();
   /** Per site: the dawn (epoch s) of the last night judged for overnight sag. */
   private readonly judgedDawn = new Map<string, number>();
   private timer: NodeJS.Timeout | undefined;
@@ -98,15 +99,20 @@ export class RulesSchedulerService implements OnApplicationBootstrap, BeforeAppl
 
   /**
    * New data at a site: evaluate the data rules after the debounce, and no sooner than
-   * RULES_MIN_INTERVAL_MS after the site's last data-triggered run.
+   * RULES_MIN_INTERVAL_MS after the site's last data-triggered run, plus up to half as long
+   * again at random. Without the random part, a fleet that connected together (an ingest
+   * restart, every gateway back within the same minute) is judged in the same bunched wave
+   * every interval, each wave a burst of work on the event loop that answers the PUBACKs; with
+   * it, the waves spread out further with every interval.
    */
   dataArrived(siteId: string): void {
     if (this.stopped || this.debounce.has(siteId)) return;
-    const last = this.lastDataRun.get(siteId) ?? Number.NEGATIVE_INFINITY;
-    const wait = Math.max(this.config.debounceMs, last + this.config.minIntervalMs - Date.now());
+    const due = this.nextDataRun.get(siteId) ?? Number.NEGATIVE_INFINITY;
+    const wait = Math.max(this.config.debounceMs, due - Date.now());
     const timer = setTimeout(() => {
       this.debounce.delete(siteId);
-      this.lastDataRun.set(siteId, Date.now());
+      const spread = 1 + Math.random() / 2;
+      this.nextDataRun.set(siteId, Date.now() + this.config.minIntervalMs * spread);
       this.request(siteId, DATA_KINDS);
     }, wait);
     timer.unref();

@@ -23,6 +23,8 @@ let quietClient: MqttClient;
 const dataRuns: { siteId: string; at: number }[] = [];
 /** Evaluations of gateway silence alone (the tick's round), per site. */
 const silenceRuns: { siteId: string; at: number }[] = [];
+/** Sites whose evaluations are only timed, not run. */
+const timedOnly = new Set<string>();
 
 beforeAll(async () => {
   catcher = await startMailCatcher();
@@ -35,6 +37,8 @@ beforeAll(async () => {
   const evaluate = rules.evaluation.evaluate.bind(rules.evaluation);
   rules.evaluation.evaluate = (siteId, kinds) => {
     if (kinds.includes('dry_run')) dataRuns.push({ siteId, at: Date.now() });
+    // The sites of the spreading test are only timed (see there), not evaluated.
+    if (timedOnly.has(siteId)) return Promise.resolve();
     if (kinds.length === 1 && kinds[0] === 'gateway_silent') {
       silenceRuns.push({ siteId, at: Date.now() });
     }
@@ -155,5 +159,51 @@ describe('the rules scheduler', () => {
     } finally {
       client.end(true);
     }
+  });
+
+  it('spreads the data rules of sites that reported together over the following interval', async () => {
+    const company = await createCompany(database.db);
+    const sites: TestSite[] = [];
+    for (let i = 0; i < 12; i++) {
+      const site = await createSite(database.db, company.id, { name: `Fleet homestead ${i}` });
+      timedOnly.add(site.id);
+      sites.push(site);
+    }
+    // When each site's data rules were asked for (the moment it was due, before any queueing
+    // behind other sites' evaluations).
+    const requested: { siteId: string; at: number }[] = [];
+    const request = rules.scheduler.request.bind(rules.scheduler);
+    rules.scheduler.request = (siteId, kinds) => {
+      if (timedOnly.has(siteId) && kinds.includes('dry_run')) {
+        requested.push({ siteId, at: Date.now() });
+      }
+      request(siteId, kinds);
+    };
+    // Every site reports every 5 ms, all together (a fleet back after an ingest restart).
+    const keepReporting = setInterval(() => {
+      for (const site of sites) rules.scheduler.dataArrived(site.id);
+    }, 5);
+    try {
+      await new Promise((r) => setTimeout(r, 1000));
+    } finally {
+      clearInterval(keepReporting);
+      rules.scheduler.request = request;
+    }
+    const runsOf = (siteId: string) =>
+      requested.filter((r) => r.siteId === siteId).map((r) => r.at);
+    const firsts = sites.map((site) => runsOf(site.id)[0]!);
+    const seconds = sites.map((site) => runsOf(site.id)[1]!);
+    expect(seconds.every((t) => t !== undefined)).toBe(true);
+    // The first runs came together, after the debounce ...
+    expect(Math.max(...firsts) - Math.min(...firsts)).toBeLessThan(40);
+    sites.forEach((_, i) => {
+      // ... each second one at least the minimum interval later, and at most half as long again
+      // (plus room for a busy machine's timers) ...
+      expect(seconds[i]! - firsts[i]!).toBeGreaterThanOrEqual(295);
+      expect(seconds[i]! - firsts[i]!).toBeLessThan(450 + 400);
+    });
+    // ... and not together: spread over more than a sixth of the interval (12 sites due at the
+    // same instant would come within a few milliseconds of each other).
+    expect(Math.max(...seconds) - Math.min(...seconds)).toBeGreaterThan(50);
   });
 });
