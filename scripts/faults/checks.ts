@@ -161,7 +161,10 @@ export async function bucketCheck(db: Database, siteIds: readonly string[]): Pro
   return out;
 }
 
-/** Pump runs of the given sites against a derivation from every raw sample at once. */
+/**
+ * Pump runs of the given sites against a derivation from every raw sample at once, up to the
+ * roll-up's watermark (runs are derived up to it, like the buckets).
+ */
 export async function pumpRunCheck(
   db: Database,
   siteIds: readonly string[],
@@ -191,6 +194,7 @@ export async function pumpRunCheck(
         select extract(epoch from r.time)::float8 as t, r.value as v
         from readings r join channels c on c.id = r.channel_id
         where c.site_id = ${pump.site_id} and c.name = ${name} and r.value is not null
+          and r.time < (select watermark from rollup_state where name = 'minute')
         order by r.time`.execute(db);
       return rows;
     };
