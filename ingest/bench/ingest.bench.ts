@@ -17,8 +17,6 @@ import { readFileSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
-import { pipeline } from 'node:stream/promises';
-import { Readable } from 'node:stream';
 import { fileURLToPath } from 'node:url';
 import {
   PostgresCluster,
@@ -30,9 +28,9 @@ import {
   type DB,
 } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
-import copyStreams from 'pg-copy-streams';
 import { ingestNodeArgs } from '../src/config/node-args.js';
 import { seedBenchGateways } from './seed-bench-gateways.js';
+import { copyText } from './copy-text.js';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 2000);
@@ -257,12 +255,11 @@ try {
           const time = new Date((t0 + pack * 0.001) * 1000).toISOString();
           lines.push(`${site}\t${(i % RECORDS_PER_PACK) + 1}\t${time}\t25.5\t\\N\t${time}\n`);
         }
-        const stream = client.query(
-          copyStreams.from(
-            'copy bench_copy (site_id, channel_id, time, value, text_value, received_at) from stdin',
-          ),
+        await copyText(
+          client,
+          'copy bench_copy (site_id, channel_id, time, value, text_value, received_at) from stdin',
+          lines.join(''),
         );
-        await pipeline(Readable.from([lines.join('')]), stream);
       }
       return COPY_ROWS / ((performance.now() - started) / 1000);
     } finally {
@@ -357,9 +354,10 @@ try {
     const client = await pool.connect();
     try {
       await client.query('create temp table acked (gw int, t float8)');
-      await pipeline(
-        Readable.from([readFileSync(ackedFile, 'utf8')]),
-        client.query(copyStreams.from('copy acked from stdin with (format csv)')),
+      await copyText(
+        client,
+        'copy acked from stdin with (format csv)',
+        readFileSync(ackedFile, 'utf8'),
       );
       const ids = gateways.map((g) => g.site_id);
       const { rows } = await client.query<{ packs: number; missing_records: number }>(

@@ -12,18 +12,16 @@
  *    (judged once a night);
  *  - sites one core of ingest could judge every RULES_MIN_INTERVAL_MS (default 120 s).
  */
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { RULE_EVALUATORS, type AlertKind, type RuleInput, type Sample } from '@wellkept/core';
 import { createPool, ensureTimePartitions, startThrowawayCluster, type DB } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
-import copyStreams from 'pg-copy-streams';
 import { DEFAULT_DATA_WINDOW, RuleDataRepository } from '../src/rules/rule-data.repository.js';
 import { readRulesConfig } from '../src/rules/rules-config.js';
 import { DATA_KINDS } from '../src/rules/rules-evaluation.service.js';
 import { SiteConfigRepository } from '../src/rules/site-config.repository.js';
 import { Homestead } from '../test/rules/support/homestead-series.js';
 import { createCompany, createSite } from '../test/rules/support/homestead-site.js';
+import { copyText } from './copy-text.js';
 
 const SITES = Number(process.env.BENCH_RULES_SITES ?? 40);
 const INTERVAL_S = Number(process.env.BENCH_RULES_INTERVAL_S ?? 30);
@@ -100,13 +98,10 @@ try {
     rows += lines.length;
     const client = await pool.connect();
     try {
-      await pipeline(
-        Readable.from([lines.join('')]),
-        client.query(
-          copyStreams.from(
-            'copy readings (site_id, channel_id, time, value, text_value) from stdin',
-          ),
-        ),
+      await copyText(
+        client,
+        'copy readings (site_id, channel_id, time, value, text_value) from stdin',
+        lines.join(''),
       );
     } finally {
       client.release();

@@ -11,12 +11,10 @@
  *    docs/telemetry.md), with the raw retention (INGEST_RAW_RETENTION_DAYS, default 90) and
  *    the buckets kept for the year.
  */
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { createPool, ensureTimePartitions, startThrowawayCluster, type DB } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
-import copyStreams from 'pg-copy-streams';
 import { BucketsRepository } from '../src/storage/buckets.repository.js';
+import { copyText } from './copy-text.js';
 
 const SITES = Number(process.env.BENCH_GROWTH_SITES ?? 20);
 const RETENTION_DAYS = Number(process.env.INGEST_RAW_RETENTION_DAYS ?? 90);
@@ -102,13 +100,10 @@ try {
           lines.push(`${c.site}\t${c.id}\t${time}\t${value}\t${text}\t${time}\n`);
         }
       }
-      await pipeline(
-        Readable.from([lines.join('')]),
-        client.query(
-          copyStreams.from(
-            'copy readings (site_id, channel_id, time, value, text_value, received_at) from stdin',
-          ),
-        ),
+      await copyText(
+        client,
+        'copy readings (site_id, channel_id, time, value, text_value, received_at) from stdin',
+        lines.join(''),
       );
     }
     copySeconds = (performance.now() - started) / 1000;

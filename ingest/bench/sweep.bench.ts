@@ -13,18 +13,16 @@
  *    their hours and days);
  *  - wall time, this process's CPU time and the samples read, per sweep and per site.
  */
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { EventEmitter2 } from '@nestjs/event-emitter';
 import { createPool, ensureTimePartitions, startThrowawayCluster, type DB } from '@wellkept/db';
 import { Kysely, PostgresDialect, sql } from 'kysely';
-import copyStreams from 'pg-copy-streams';
 import { createLogger } from '../src/logging/logger.js';
 import { PumpRunsRepository } from '../src/pump-runs/pump-runs.repository.js';
 import { PumpRunsService } from '../src/pump-runs/pump-runs.service.js';
 import { BucketsRepository } from '../src/storage/buckets.repository.js';
 import { SiteUpdates } from '../src/site-updates/site-updates.js';
 import { createCompany, createSite } from '../test/rules/support/homestead-site.js';
+import { copyText } from './copy-text.js';
 
 const SITES = Number(process.env.BENCH_SWEEP_SITES ?? 300);
 const RUN_HOURS = Number(process.env.BENCH_SWEEP_RUN_HOURS ?? 8);
@@ -78,11 +76,10 @@ try {
     rows += lines.length;
     const client = await pool.connect();
     try {
-      await pipeline(
-        Readable.from([lines.join('')]),
-        client.query(
-          copyStreams.from('copy readings (site_id, channel_id, time, value) from stdin'),
-        ),
+      await copyText(
+        client,
+        'copy readings (site_id, channel_id, time, value) from stdin',
+        lines.join(''),
       );
     } finally {
       client.release();

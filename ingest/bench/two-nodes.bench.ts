@@ -17,12 +17,9 @@ import { spawn } from 'node:child_process';
 import { readFileSync, readdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { fileURLToPath } from 'node:url';
 import { createPool, repoRoot, startThrowawayCluster, type DB } from '@wellkept/db';
 import { Kysely, PostgresDialect } from 'kysely';
-import copyStreams from 'pg-copy-streams';
 import { seedBenchGateways } from './seed-bench-gateways.js';
 import {
   scratchFolder,
@@ -31,6 +28,7 @@ import {
   startRedis,
   type IngestNode,
 } from '../test/cluster/loopback-services.js';
+import { copyText } from './copy-text.js';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 1000);
@@ -312,9 +310,10 @@ try {
     const client = await pool.connect();
     try {
       await client.query('create temp table acked (gw int, t float8)');
-      await pipeline(
-        Readable.from([readFileSync(ackedFile, 'utf8')]),
-        client.query(copyStreams.from('copy acked from stdin with (format csv)')),
+      await copyText(
+        client,
+        'copy acked from stdin with (format csv)',
+        readFileSync(ackedFile, 'utf8'),
       );
       const { rows } = await client.query<{ packs: number; missing_records: number }>(
         `select count(*)::int as packs,

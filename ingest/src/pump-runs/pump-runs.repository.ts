@@ -42,10 +42,6 @@ export interface PumpForRuns {
 export class PumpRunsRepository {
   constructor(@Inject(DATABASE) private readonly db: Database) {}
 
-  get database(): Database {
-    return this.db;
-  }
-
   async pumpsAt(siteIds: readonly string[], db: Kysely<DB> = this.db): Promise<PumpForRuns[]> {
     if (siteIds.length === 0) return [];
     const rows = await db
