@@ -53,6 +53,7 @@ interface GeneratorResult {
   errors: number;
   ackedPerSecond: number;
   latencyMs: { p50: number; p95: number; p99: number };
+  worstBySecondMs: number[];
   /** The load generator's own CPU while it offered load, percent of one core. */
   generatorCpuPercent: number;
 }
@@ -340,6 +341,24 @@ try {
     sweepSeconds: metric('wellkept_ingest_rollup_seconds_sum', text),
   });
   const saturatedCommits = commitTotals(metricsText);
+  /** V8 garbage collections so far by kind: count, seconds, and pauses over 100 ms. */
+  const gcTotals = (text: string) =>
+    Object.fromEntries(
+      ['minor', 'incremental', 'major'].map((kind) => {
+        const read = (suffix: string, le = '') =>
+          Number(
+            new RegExp(
+              `^wellkept_ingest_nodejs_gc_duration_seconds_${suffix}\\{${le}kind="${kind}"\\} ([0-9.e+-]+)$`,
+              'm',
+            ).exec(text)?.[1] ?? 0,
+          );
+        const count = read('count');
+        return [
+          kind,
+          { count, seconds: read('sum'), over100: count - read('bucket', 'le="0.1",') },
+        ];
+      }),
+    );
   await topStatements('(c)');
   // Where the process's memory is, as it reports it (prom-client's default metrics).
   const heapMb = {
@@ -409,15 +428,25 @@ try {
     Number(process.env.BENCH_HALF_PER_SECOND ?? 0) ||
     Math.max(1, Math.round(saturated.ackedPerSecond / 2));
   log(`ingest at half load: ${half} packs/s`);
-  const beforeHalf = commitTotals(
-    await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text(),
-  );
+  const beforeHalfText = await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text();
+  const beforeHalf = commitTotals(beforeHalfText);
+  const gcBeforeHalf = gcTotals(beforeHalfText);
   const halfRun = await withCpu(ingest.pid!, pgDataDir, () =>
     runGenerator(`mqtt://127.0.0.1:${mqttPort}`, half, `${work}-half.csv`),
   );
   const halfLoad = halfRun.result;
-  const afterHalf = commitTotals(
-    await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text(),
+  const afterHalfText = await (await fetch(`http://127.0.0.1:${httpPort}/metrics`)).text();
+  const afterHalf = commitTotals(afterHalfText);
+  const gcAfterHalf = gcTotals(afterHalfText);
+  const halfGc = Object.keys(gcAfterHalf)
+    .map((kind) => {
+      const [a, b] = [gcBeforeHalf[kind]!, gcAfterHalf[kind]!];
+      return `${kind} ${b.count - a.count} (${((b.seconds - a.seconds) * 1000).toFixed(0)} ms, ${b.over100 - a.over100} over 100 ms)`;
+    })
+    .join('; ');
+  // prom-client's event-loop monitor restarts at each scrape: this reading covers (d) alone.
+  const halfLoopMs = ['p50', 'p99', 'max'].map(
+    (p) => 1000 * metric(`wellkept_ingest_nodejs_eventloop_lag_${p}_seconds`, afterHalfText),
   );
   rmSync(`${work}-half.csv`, { force: true });
   await topStatements('(d)');
@@ -459,6 +488,9 @@ Ingest benchmark — ${CONNECTIONS} connections, 8-record packs, QoS 1, ${SECOND
   (d) ingest at ${process.env.BENCH_HALF_PER_SECOND ? 'a fixed' : 'half'} load (${f(half)} packs/s): ${f(halfLoad.ackedPerSecond)} packs/s committed
         PUBACK latency p50/p95/p99:    ${f(halfLoad.latencyMs.p50, 1)} / ${f(halfLoad.latencyMs.p95, 1)} / ${f(halfLoad.latencyMs.p99, 1)} ms  (target p99 ≤ 250 ms)
         group commits:                 ${commits(beforeHalf, afterHalf)}
+        ingest event-loop delay:       p50/p99/max ${halfLoopMs.map((x) => f(x, 1)).join(' / ')} ms
+        garbage collections:           ${halfGc}
+        slowest PUBACK each second:    ${halfLoad.worstBySecondMs.map((x) => f(x)).join(' ')} ms
   (e) broker alone at that half load:  PUBACK p50/p95/p99 ${f(aloneHalf.latencyMs.p50, 1)} / ${f(aloneHalf.latencyMs.p95, 1)} / ${f(aloneHalf.latencyMs.p99, 1)} ms (no database: the floor)
   ingest peak RSS:                     ${f(peakRss)} MB  (target ≤ 600 MB at 10,000 connections)
         after (c): RSS ${f(heapMb.rss)} MB; V8 heap ${f(heapMb.used)} MB used of ${f(heapMb.total)} MB; external ${f(heapMb.external)} MB

@@ -83,6 +83,8 @@ const fleet = await connectAll();
 const connectSeconds = (Date.now() - started) / 1000;
 
 const latencies: number[] = [];
+/** Per second of the measured window (by send time), the slowest acknowledgement, ms. */
+const worstBySecond: number[] = [];
 const acked: string[] = [];
 let sent = 0;
 let ackedInWindow = 0;
@@ -133,6 +135,8 @@ await new Promise<void>((resolve) => {
         if (done >= windowStart && done <= runEnd) {
           ackedInWindow += 1;
           latencies.push(done - at);
+          const second = Math.floor((at - windowStart) / 1000);
+          if (second >= 0) worstBySecond[second] = Math.max(worstBySecond[second] ?? 0, done - at);
         }
       });
     }
@@ -165,6 +169,7 @@ console.log(
     errors,
     ackedPerSecond: ackedInWindow / (options.durationS - options.warmupS),
     latencyMs: { p50: pct(50), p95: pct(95), p99: pct(99) },
+    worstBySecondMs: Array.from(worstBySecond, (ms) => Math.round(ms ?? 0)),
     generatorCpuPercent: (100 * (cpu.user + cpu.system)) / 1e6 / runSeconds,
   }),
 );

@@ -1,8 +1,12 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { sql } from 'kysely';
+import { booleanArrayLiteral, textArrayLiteral } from '../database/array-literals.js';
 import { DATABASE, type Database } from '../database/database.js';
 import type { SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { SiteUpdates } from '../site-updates/site-updates.js';
+
+/** Gateways per last-seen UPDATE. */
+const LAST_SEEN_PER_STATEMENT = 5_000;
 
 export interface GatewayCredentials {
   id: string;
@@ -46,8 +50,10 @@ export class GatewaysRepository {
       await sql`
         update gateways g set online = c.online, status_changed_at = c.at,
           last_seen_at = greatest(g.last_seen_at, c.at)
-        from unnest(${changes.map((c) => c.id)}::text[], ${changes.map((c) => c.online)}::bool[],
-                    ${changes.map((c) => c.at.toISOString())}::timestamptz[]) as c(id, online, at)
+        from unnest(${textArrayLiteral(changes.map((c) => c.id))}::text[],
+                    ${booleanArrayLiteral(changes.map((c) => c.online))}::bool[],
+                    ${textArrayLiteral(changes.map((c) => c.at.toISOString()))}::timestamptz[])
+          as c(id, online, at)
         where g.id = c.id and g.online is distinct from c.online`.execute(trx);
       const at = new Date().toISOString();
       const sites = [...new Set(changes.map((c) => c.siteId))];
@@ -61,14 +67,22 @@ export class GatewaysRepository {
     });
   }
 
-  /** Moves last-seen times forward (never back). */
+  /**
+   * Moves last-seen times forward (never back), in slices of a few thousand gateways: the
+   * parameters of one statement for a whole fleet are built on the event loop that answers
+   * PUBACKs (see database/array-literals.ts).
+   */
   async touchLastSeen(seen: ReadonlyMap<string, number>): Promise<void> {
-    if (seen.size === 0) return;
-    const ids = [...seen.keys()];
-    const times = ids.map((id) => new Date(seen.get(id)!).toISOString());
-    await sql`
-      update gateways g set last_seen_at = s.at
-      from unnest(${ids}::text[], ${times}::timestamptz[]) as s(id, at)
-      where g.id = s.id and (g.last_seen_at is null or g.last_seen_at < s.at)`.execute(this.db);
+    const all = [...seen];
+    for (let from = 0; from < all.length; from += LAST_SEEN_PER_STATEMENT) {
+      const slice = all.slice(from, from + LAST_SEEN_PER_STATEMENT);
+      const ids = slice.map(([id]) => id);
+      const times = slice.map(([, at]) => new Date(at).toISOString());
+      await sql`
+        update gateways g set last_seen_at = s.at
+        from unnest(${textArrayLiteral(ids)}::text[], ${textArrayLiteral(times)}::timestamptz[])
+          as s(id, at)
+        where g.id = s.id and (g.last_seen_at is null or g.last_seen_at < s.at)`.execute(this.db);
+    }
   }
 }

@@ -1,6 +1,7 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { RULE_MEASUREMENTS, type Sample, type SeriesMap } from '@wellkept/core';
 import { sql } from 'kysely';
+import { textArrayLiteral } from '../database/array-literals.js';
 import { DATABASE, type Database } from '../database/database.js';
 
 /** How far back the evaluators look. */
@@ -100,7 +101,7 @@ export class RuleDataRepository {
     if (siteIds.length === 0) return new Map();
     const { rows } = await sql<{ site_id: string; t: number }>`
       select site_id, extract(epoch from max(last_time))::float8 as t
-      from channels where site_id = any(${[...siteIds]}::uuid[]) and last_time is not null
+      from channels where site_id = any(${textArrayLiteral(siteIds)}::uuid[]) and last_time is not null
       group by site_id`.execute(this.db);
     return new Map(rows.map((r) => [r.site_id, r.t]));
   }

@@ -4,7 +4,7 @@ import { WRITER_DATABASE, type Database } from '../database/database.js';
 import { SiteUpdates, type SiteUpdatedEvent } from '../site-updates/site-updates.js';
 import { ChannelCache } from '../telemetry/channel-cache.js';
 import { storedText, storedValue, type PackToStore } from '../telemetry/pack.js';
-import { numberArrayLiteral, textArrayLiteral } from './array-literals.js';
+import { numberArrayLiteral, textArrayLiteral } from '../database/array-literals.js';
 import type { ChannelKey } from './channels.repository.js';
 import { PartitionsService } from './partitions.service.js';
 import { LATE_AFTER_SECONDS, SWITCH_RESCAN_MINUTES } from './rollup-timing.js';

@@ -1,14 +1,18 @@
 import { useTestDatabase } from '@wellkept/db/testing';
 import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
-import { numberArrayLiteral, textArrayLiteral } from '../../src/storage/array-literals.js';
+import {
+  booleanArrayLiteral,
+  numberArrayLiteral,
+  textArrayLiteral,
+} from '../../src/database/array-literals.js';
 
 const database = useTestDatabase('ingest_array_literals');
 
 /** Reads an array literal back through PostgreSQL's own parser, element by element. */
 async function readBack<T>(
   literal: string,
-  type: 'float8' | 'int' | 'text' | 'uuid',
+  type: 'float8' | 'int' | 'text' | 'uuid' | 'bool' | 'timestamptz',
 ): Promise<T[]> {
   const { rows } = await sql<{ v: T }>`
     select v from unnest(${literal}::${sql.raw(type)}[]) with ordinality as u(v, i) order by i`.execute(
@@ -17,7 +21,7 @@ async function readBack<T>(
   return rows.map((r) => r.v);
 }
 
-describe('array literals for the batch insert', () => {
+describe('array literals for fleet-sized parameters', () => {
   it('reads numbers back as the very same doubles, nulls included', async () => {
     const values = [
       1796319123.456789,
@@ -61,8 +65,20 @@ describe('array literals for the batch insert', () => {
     expect(await readBack<string>(textArrayLiteral(ids), 'uuid')).toEqual(ids);
   });
 
+  it('reads booleans back, nulls included', async () => {
+    const values = [true, false, null, true];
+    expect(await readBack<boolean | null>(booleanArrayLiteral(values), 'bool')).toEqual(values);
+  });
+
+  it('reads ISO times back as the same instants', async () => {
+    const times = ['2026-12-03T20:15:01.123Z', '2027-01-01T00:00:00.000Z'];
+    const back = await readBack<Date>(textArrayLiteral(times), 'timestamptz');
+    expect(back.map((d) => d.toISOString())).toEqual(times);
+  });
+
   it('gives empty arrays for no values', async () => {
     expect(await readBack<number>(numberArrayLiteral([]), 'float8')).toEqual([]);
     expect(await readBack<string>(textArrayLiteral([]), 'text')).toEqual([]);
+    expect(await readBack<boolean>(booleanArrayLiteral([]), 'bool')).toEqual([]);
   });
 });
