@@ -16,7 +16,7 @@ const database = useTestDatabase('ingest_fleet_sized_writes');
  * every slice must land, and newer stored values must still win.
  */
 describe('fleet-sized periodic writes', () => {
-  it('writes the latest values of 9,100 channels, in slices, never moving a channel back', async () => {
+  it('writes the latest values of 9,100 channels (more than two statements of them), never moving a channel back', async () => {
     const site = await seedSite(database.db);
     const { rows: channels } = await sql<{ id: number }>`
       insert into channels (site_id, name, unit, value_kind)
@@ -47,7 +47,7 @@ describe('fleet-sized periodic writes', () => {
     }
   });
 
-  it('moves last-seen forward for 11,000 gateways, in slices, never back', async () => {
+  it('moves last-seen forward for 11,000 gateways (more than two statements of them), never back', async () => {
     const site = await seedSite(database.db);
     const prefix = `fleet-${site.siteId.slice(0, 8)}`;
     await sql`
